@@ -1,0 +1,1 @@
+"""bcdprove: formal checking of binary/BCD converter designs written in Verilog."""

@@ -480,3 +480,29 @@ def evaluate(roots: Sequence[Node], values: dict[int, int]) -> list[int]:
             env[node.id] = apply_op(node.op, node.width, node.params,
                                     [env[a.id] for a in node.args], [a.width for a in node.args])
     return [env[r.id] for r in roots]
+
+
+def substitute(graph: Graph, roots: Sequence[Node], mapping: dict[int, Node]) -> list[Node]:
+    """Rebuild ``roots`` with the nodes whose ids are keys of ``mapping`` replaced.
+
+    Replacement nodes must have the width of the node they replace.  The rebuilt nodes go
+    through the graph's rewriting, so tying an input to a constant folds what it can.
+    """
+    env: dict[int, Node] = {}
+    for node in topological(roots):
+        if node.id in mapping:
+            new = mapping[node.id]
+            if new.width != node.width:
+                raise ValueError(f"substitute: {node!r} has width {node.width}, replacement {new.width}")
+            env[node.id] = new
+        elif node.op in Op.LEAVES:
+            env[node.id] = node
+        else:
+            args = tuple(env[a.id] for a in node.args)
+            if all(new is old for new, old in zip(args, node.args)):
+                env[node.id] = node
+            elif node.op in (Op.ZEXT, Op.SEXT):
+                env[node.id] = graph.op(node.op, *args, params=(node.width,))
+            else:
+                env[node.id] = graph.op(node.op, *args, params=node.params)
+    return [env[r.id] for r in roots]

@@ -1,0 +1,55 @@
+"""The command line: ``bcdprove eval`` and ``bcdprove check`` (a thin layer over the public API)."""
+from __future__ import annotations
+
+import sys
+
+import typer
+
+from ..errors import BcdproveError
+
+app = typer.Typer(
+    add_completion=False,
+    no_args_is_help=True,
+    help="Prove binary/BCD converter designs written in Verilog, or show the input that breaks them.",
+    pretty_exceptions_enable=False,
+)
+
+
+def _register_commands() -> None:
+    from . import eval_cmd
+    eval_cmd.register(app)
+    try:
+        from . import check_cmd
+    except ImportError:  # pragma: no cover - only while the check command is being built
+        return
+    check_cmd.register(app)
+
+
+_register_commands()
+
+
+def main() -> None:
+    """Console-script entry: bad input is one ``file:line: message`` line and exit code 2."""
+    debug = "--debug" in sys.argv
+    try:
+        app(standalone_mode=False)
+    except BcdproveError as error:
+        if debug:
+            raise
+        print(f"bcdprove: error: {error}" if error.file is None else str(error), file=sys.stderr)
+        sys.exit(2)
+    except typer.Exit as done:
+        sys.exit(done.exit_code)
+    except (typer.Abort, KeyboardInterrupt):
+        print("bcdprove: interrupted", file=sys.stderr)
+        sys.exit(130)
+    except Exception as error:  # click's usage errors and anything unexpected
+        import click
+        if isinstance(error, click.ClickException):
+            error.show()
+            sys.exit(2)
+        if debug:
+            raise
+        print(f"bcdprove: internal error: {type(error).__name__}: {error} (run with --debug for the "
+              f"traceback, and please report it)", file=sys.stderr)
+        sys.exit(2)

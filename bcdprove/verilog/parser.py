@@ -1,0 +1,103 @@
+"""Parsing preprocessed Verilog into a pyverilog syntax tree.
+
+The grammar is pyverilog 1.3.0's ply grammar, extended in ``_grammar`` with the productions
+real converter files need.  ply's LALR tables are cached per user (never in the current
+directory or the installed package); when no cache is writable they are built in memory.
+"""
+from __future__ import annotations
+
+import hashlib
+import os
+import tempfile
+from pathlib import Path
+from typing import Optional
+
+import ply
+import ply.yacc
+import pyverilog
+from pyverilog.vparser import ast as vast
+
+from ..errors import BcdproveError
+from ..model.design import SourceLocation
+from .preprocess import Preprocessed
+from . import _grammar
+
+__all__ = ["parse", "location"]
+
+_PARSER: Optional["_grammar.ExtendedParser"] = None
+
+
+def parse(pre: Preprocessed) -> vast.Source:
+    """Parse ``pre.text`` into a ``pyverilog.vparser.ast.Source``.
+
+    Every node's ``lineno`` is a line of ``pre.text`` (map it with ``location``).  A syntax
+    error, or a construct the reader rejects outright (``typedef``, ``struct``, ...), raises
+    BcdproveError carrying the original file and line.
+    """
+    parser = _parser()
+    try:
+        return parser.parse_text(pre.text)
+    except _grammar.SyntaxProblem as problem:
+        file, line = pre.origin(problem.line)
+        raise BcdproveError(problem.message, file, line) from None
+    except RecursionError:
+        raise BcdproveError("syntax error: nesting too deep to parse", pre.origin(1)[0]) from None
+
+
+def location(pre: Preprocessed, node: vast.Node) -> SourceLocation:
+    """The original file and line of an AST node produced by ``parse(pre)``."""
+    line = getattr(node, "lineno", None) or 1
+    file, original = pre.origin(int(line))
+    return SourceLocation(file, original)
+
+
+def _parser() -> "_grammar.ExtendedParser":
+    """The process-wide parser, built (or loaded from the table cache) on first use."""
+    global _PARSER
+    if _PARSER is None:
+        _PARSER = _grammar.ExtendedParser(_load_tables)
+    return _PARSER
+
+
+def _cache_directory() -> Path:
+    """Per-user cache folder for the tables, keyed by the grammar's sources and versions."""
+    root = os.environ.get("XDG_CACHE_HOME") or os.path.join(os.path.expanduser("~"), ".cache")
+    digest = hashlib.sha256()
+    digest.update(f"{pyverilog.__version__}|{ply.__version__}|".encode())
+    for source in (_grammar.__file__, _grammar.base_grammar_file()):
+        try:
+            digest.update(Path(source).read_bytes())
+        except OSError:
+            digest.update(source.encode())
+    return Path(root) / "bcdprove" / digest.hexdigest()[:16]
+
+
+def _load_tables(build) -> object:
+    """Return a ply parser, reusing cached tables when possible.
+
+    ``build(picklefile)`` runs ply's yacc with the given pickle path (or None: in memory).
+    Tables are written to a private temporary name and renamed into place, so a reader never
+    sees a half-written file; any problem with the cache falls back to building in memory.
+    """
+    try:
+        folder = _cache_directory()
+        target = folder / "parser-tables.pickle"
+        if target.is_file():
+            try:
+                return build(str(target))
+            except Exception:  # a damaged cache file: rebuild below
+                pass
+        folder.mkdir(parents=True, exist_ok=True)
+        handle, temporary = tempfile.mkstemp(prefix="tables-", suffix=".tmp", dir=folder)
+        os.close(handle)
+        os.unlink(temporary)  # ply must see no file here, or it would try to read it
+        try:
+            parser = build(temporary)
+            if os.path.isfile(temporary):
+                os.replace(temporary, target)
+            return parser
+        finally:
+            if os.path.exists(temporary):
+                os.unlink(temporary)
+    except OSError:
+        return build(None)

@@ -1,0 +1,255 @@
+"""The binary-to-BCD specification: every output nibble is the matching decimal digit of the input.
+
+:func:`build_problem` turns a combinational :class:`~bcdprove.model.design.Model` into a
+:class:`Bin2BcdProblem`: the binary input ``x`` (W bits), the digit nodes (4 bits each,
+least significant first, a trimmed top digit zero-extended, tied inputs substituted away),
+and the reference the engines compare against (Python's ``int``/``str``).  Every engine
+decides the same question: is there an ``x`` in the contract (``x <= max_input``), and a
+choice of every free leaf (untied inputs, unknown values), for which some digit differs
+from the decimal digit of ``x``?
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field, replace
+from typing import Mapping
+
+from ..engines.base import Counterexample
+from ..errors import BcdproveError
+from ..model.design import Model
+from ..model.node import Node, Op, evaluate, leaves, mask, substitute
+from .ports import choose_input, choose_outputs
+
+
+def decimal_digits(value: int, count: int) -> list[int]:
+    """The ``count`` lowest decimal digits of ``value``, least significant first (from ``str``)."""
+    text = str(value)[::-1]
+    return [int(text[i]) if i < len(text) else 0 for i in range(count)]
+
+
+def digits_needed(value: int) -> int:
+    """How many decimal digits ``value`` has (at least one, for zero)."""
+    return len(str(value))
+
+
+@dataclass
+class Bin2BcdProblem:
+    """One binary-to-BCD check, ready for any engine (see the module docstring)."""
+
+    model: Model
+    input_ports: list[str]
+    output_ports: list[str]
+    reasons: list[str]
+    x: Node
+    width: int
+    digits: list[Node]
+    max_input: int | None = None
+    ties: dict[str, int] = field(default_factory=dict)
+    msd_first: bool = False
+    digit_sources: list[str] = field(default_factory=list)   # "bcd[7:4]" per digit, for reports
+
+    # reference -------------------------------------------------------------------------
+    @property
+    def digit_count(self) -> int:
+        """D, the number of digits the design shows."""
+        return len(self.digits)
+
+    @property
+    def top_value(self) -> int:
+        """The largest input in the contract."""
+        return mask(self.width) if self.max_input is None else self.max_input
+
+    def expected_digits(self, x: int) -> list[int]:
+        """The D lowest decimal digits of ``x``, least significant first (Python ``str``)."""
+        return decimal_digits(x, self.digit_count)
+
+    def needed_digits(self) -> int:
+        """Digits the largest input in the contract needs (for 2**W - 1: OEIS A034887)."""
+        return digits_needed(self.top_value)
+
+    def capacity(self) -> int:
+        """10**D: the smallest value D digits cannot show."""
+        return 10 ** self.digit_count
+
+    def fits(self) -> bool:
+        """Whether D digits can show every input in the contract."""
+        return self.top_value < self.capacity()
+
+    def below_capacity(self) -> "Bin2BcdProblem":
+        """The same problem restricted to inputs below 10**D (the check of the digits present)."""
+        return replace(self, max_input=min(self.top_value, self.capacity() - 1))
+
+    def free_leaves(self) -> list[Node]:
+        """Leaves besides ``x`` that the digits depend on: untied inputs and unknown values."""
+        return [n for n in leaves(self.digits) if n is not self.x]
+
+    def port_of(self, leaf: Node) -> str | None:
+        """The input port an INPUT leaf stands for (None for unknown values)."""
+        return leaf.params[0] if leaf.op == Op.INPUT else None
+
+    # replay --------------------------------------------------------------------------------
+    def evaluate(self, x: int, free_values: Mapping[int, int] | None = None) -> list[int]:
+        """The digits the model shows at ``x`` with every free leaf given in ``free_values``."""
+        values = {self.x.id: x}
+        values.update(free_values or {})
+        return evaluate(self.digits, values)
+
+    def replay(self, x: int, free_values: Mapping[int, int] | None = None) -> Counterexample | None:
+        """Simulate the model at ``x``; a replayed Counterexample when the output is wrong, else None.
+
+        Free leaves missing from ``free_values`` are first tried at zero; when that choice gives
+        right digits and some free leaf is still unchosen, z3 looks (with ``x`` fixed) for a
+        choice that makes a digit wrong.  None therefore means right for every such choice.
+        An ``x`` of 10**D or more is always wrong: D digits cannot show it.
+        """
+        if not 0 <= x <= mask(self.width):
+            raise ValueError(f"input {x} does not fit in {self.width} bits")
+        given = dict(free_values or {})
+        unchosen = [leaf for leaf in self.free_leaves() if leaf.id not in given]
+        trial = dict(given)
+        trial.update({leaf.id: 0 for leaf in unchosen})
+        found = self._compare(x, trial)
+        if found is None and unchosen:
+            choice = self._solve_free(x, given, unchosen)
+            if choice is not None:
+                found = self._compare(x, choice)
+                if found is None:
+                    raise AssertionError("z3 choice of free values did not replay as wrong; "
+                                         "the model and its z3 translation disagree")
+        return found
+
+    def _compare(self, x: int, values: dict[int, int]) -> Counterexample | None:
+        actual = self.evaluate(x, values)
+        shown = max(self.digit_count, digits_needed(x))
+        expected = decimal_digits(x, shown)
+        wrong = [i for i in range(shown)
+                 if (actual[i] if i < self.digit_count else 0) != expected[i]]
+        if not wrong:
+            return None
+        inputs = {self.input_ports[0]: x}
+        free: dict[int, int] = {}
+        for leaf in self.free_leaves():
+            value = values.get(leaf.id, 0)
+            port = self.port_of(leaf)
+            if port is not None:
+                inputs[port] = value
+            else:
+                free[leaf.id] = value
+        note = ""
+        if x >= self.capacity():
+            note = (f"{x} needs {digits_needed(x)} digits; the design shows "
+                    f"{self.digit_count}")
+        return Counterexample(inputs=inputs, expected=expected, actual=actual, wrong=wrong,
+                              free_values=free, replayed=True, note=note)
+
+    def _solve_free(self, x: int, given: dict[int, int],
+                    unchosen: list[Node]) -> dict[int, int] | None:
+        import z3
+
+        from ..model.smt import Z3Encoder
+
+        encoder = Z3Encoder()
+        solver = z3.Solver(ctx=getattr(encoder, "ctx", None))
+        solver.add(encoder.term(self.x) == x)
+        by_id = {leaf.id: leaf for leaf in self.free_leaves()}
+        for leaf_id, value in given.items():
+            if leaf_id in by_id:
+                solver.add(encoder.term(by_id[leaf_id]) == value)
+        expected = self.expected_digits(x)
+        solver.add(z3.Or(*[encoder.term(d) != e for d, e in zip(self.digits, expected)]))
+        if solver.check() != z3.sat:
+            return None
+        values = dict(given)
+        values.update(encoder.leaf_values(solver.model(), unchosen))
+        return values
+
+
+def _parse_ties(model: Model, ties: Mapping[str, int] | None) -> dict[str, int]:
+    result: dict[str, int] = {}
+    for name, value in (ties or {}).items():
+        port = next((p for p in model.ports if p.name == name), None)
+        if port is None or port.direction != "input":
+            raise BcdproveError(f"--tie {name}={value}: `{model.top}` has no input port `{name}`")
+        if not 0 <= int(value) <= mask(port.width):
+            raise BcdproveError(f"--tie {name}={value}: does not fit the {port.width}-bit input")
+        result[name] = int(value)
+    return result
+
+
+def _split_digits(model: Model, output_ports: list[str], msd_first: bool,
+                  numbered_msd_first: bool) -> tuple[list[Node], list[str]]:
+    """Cut the output ports into 4-bit digit nodes, least significant first."""
+    graph = model.graph
+    digits: list[Node] = []
+    sources: list[str] = []
+    for position, name in enumerate(output_ports):
+        port = model.port(name)
+        last = position == len(output_ports) - 1
+        if port.width % 4 and not last and port.width > 4:
+            raise BcdproveError(f"output `{name}` is {port.width} bits: only the most significant "
+                                f"digit port may hold a trimmed digit", *_where(port))
+        if port.width <= 4:
+            if port.width < 4 and not last:
+                raise BcdproveError(f"output `{name}` is {port.width} bits: only the most "
+                                    f"significant digit may be narrower than 4 bits", *_where(port))
+            digits.append(graph.zext(port.node, 4))
+            sources.append(name if port.width == 1 else f"{name}[{port.width - 1}:0]")
+            continue
+        count = -(-port.width // 4)
+        if msd_first and port.width % 4:
+            raise BcdproveError(f"output `{name}` is {port.width} bits, not whole nibbles; "
+                                f"with --msd-first every digit must be 4 bits", *_where(port))
+        nibbles = []
+        for k in range(count):
+            hi = min(4 * k + 3, port.width - 1)
+            nibbles.append((graph.zext(graph.extract(port.node, hi, 4 * k), 4),
+                            f"{name}[{hi}:{4 * k}]"))
+        if msd_first:
+            nibbles.reverse()
+        digits.extend(n for n, _ in nibbles)
+        sources.extend(s for _, s in nibbles)
+    return digits, sources
+
+
+def _where(port) -> tuple:
+    return (port.loc.file, port.loc.line) if port.loc else ()
+
+
+def build_problem(model: Model, inputs: list[str] | None = None, outputs: list[str] | None = None,
+                  msd_first: bool = False, max_input: int | None = None,
+                  ties: Mapping[str, int] | None = None) -> Bin2BcdProblem:
+    """The check of ``model`` against the binary-to-BCD specification.
+
+    ``inputs``/``outputs`` name ports (outputs least significant digit first); missing ones
+    are inferred.  ``msd_first``: the low nibble of a packed output (and index 0 of numbered
+    digit ports) is the most significant digit.  ``ties`` holds inputs at constants, which are
+    substituted away.  Raises BcdproveError for a clocked model, an ambiguous or unknown port,
+    a bad tie or a ``max_input`` outside the input's range.
+    """
+    if model.is_clocked:
+        names = ", ".join(r.name for r in model.registers[:4])
+        raise BcdproveError(f"module `{model.top}` has registers ({names}); checking clocked "
+                            f"converters is not supported yet, only combinational ones")
+    tie_values = _parse_ties(model, ties)
+    input_name, input_reason = choose_input(model, inputs, tie_values)
+    output_names, output_reason, numbered_msd = choose_outputs(model, outputs, msd_first)
+    in_port = model.port(input_name)
+    width = in_port.width
+    if max_input is not None and not 0 <= max_input <= mask(width):
+        raise BcdproveError(f"--max-input {max_input} is outside the {width}-bit input "
+                            f"`{input_name}` (0 .. {mask(width)})")
+    digits, sources = _split_digits(model, output_names, msd_first, numbered_msd)
+    reasons = [input_reason, output_reason]
+    if tie_values:
+        mapping = {}
+        for name, value in tie_values.items():
+            port = model.port(name)
+            mapping[port.node.id] = model.graph.const(value, port.width)
+        digits = substitute(model.graph, digits, mapping)
+        reasons.append("tied: " + ", ".join(f"`{n}` = {v}" for n, v in tie_values.items()))
+    if in_port.signed:
+        reasons.append(f"input `{input_name}` is declared signed; its bits are read as an "
+                       f"unsigned value")
+    return Bin2BcdProblem(model=model, input_ports=[input_name], output_ports=output_names,
+                          reasons=reasons, x=in_port.node, width=width, digits=digits,
+                          max_input=max_input, ties=tie_values, msd_first=msd_first,
+                          digit_sources=sources)

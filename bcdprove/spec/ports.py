@@ -1,0 +1,168 @@
+"""Port inference: which input holds the binary value and which outputs hold the digits.
+
+The contract: the data input and the digit outputs are taken from the user's ``--in`` /
+``--out`` when given; otherwise they are inferred only when the choice is unambiguous, and
+every choice comes with a sentence saying why (for the report).  Anything ambiguous is a
+:class:`~bcdprove.errors.BcdproveError` that asks for ``--in PORT`` or ``--out PORT``.
+"""
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+
+from ..errors import BcdproveError
+from ..model.design import Model, Port
+
+# Digit names by place value; an output set named with these is read least significant first.
+_PLACE_WORDS: dict[str, int] = {
+    "ones": 0, "units": 0, "unit": 0, "one": 0,
+    "tens": 1, "ten": 1,
+    "hundreds": 2, "hundred": 2,
+    "thousands": 3, "thousand": 3,
+    "ten_thousands": 4, "tenthousands": 4, "ten_thousand": 4,
+    "hundred_thousands": 5, "hundredthousands": 5, "hundred_thousand": 5,
+    "millions": 6, "million": 6,
+    "ten_millions": 7, "tenmillions": 7, "ten_million": 7,
+    "hundred_millions": 8, "hundredmillions": 8, "hundred_million": 8,
+    "billions": 9, "billion": 9,
+}
+# Longest first, so "ten_thousands" is not read as "thousands" with prefix "ten_".
+_PLACE_ORDER = sorted(_PLACE_WORDS, key=len, reverse=True)
+_NUMBERED = re.compile(r"^(?P<stem>.*?)(?P<index>\d+)(?P<tail>_?[a-z]?)$", re.IGNORECASE)
+
+
+@dataclass
+class PortChoice:
+    """The ports taken: one data input, digit outputs least significant digit first."""
+
+    input_port: str
+    output_ports: list[str]
+    reasons: list[str]
+    msd_first_ports: bool = False    # True when numbered ports were read most significant first
+
+
+def _names(ports: list[Port]) -> str:
+    return ", ".join(f"`{p.name}`" for p in ports) or "none"
+
+
+def choose_input(model: Model, named: list[str] | None, ties: dict[str, int]) -> tuple[str, str]:
+    """The data input port and the reason it was taken.
+
+    Raises BcdproveError when a named port is not an input or when the choice is ambiguous.
+    """
+    if named:
+        if len(named) != 1:
+            raise BcdproveError(f"--in takes one data input port, got {len(named)}: "
+                                f"{', '.join(named)}")
+        name = named[0]
+        port = _find(model, name, "input")
+        if name in ties:
+            raise BcdproveError(f"input `{name}` is both the data input and tied with --tie")
+        return port.name, f"input `{port.name}`: named with --in"
+    candidates = [p for p in model.inputs if p.name not in ties]
+    if len(candidates) == 1:
+        why = "the only input" if not ties else "the only input not tied"
+        return candidates[0].name, f"input `{candidates[0].name}`: {why}"
+    wide = [p for p in candidates if p.width > 1]
+    if len(wide) == 1:
+        narrow = [p for p in candidates if p.width == 1]
+        return wide[0].name, (f"input `{wide[0].name}`: the only input wider than one bit "
+                              f"({_names(narrow)} left free: tie them with --tie PORT=VALUE)")
+    if not candidates:
+        raise BcdproveError(f"module `{model.top}` has no input port to read the binary value from")
+    raise BcdproveError(f"module `{model.top}` has several data inputs ({_names(candidates)}); "
+                        f"name the binary input with --in PORT")
+
+
+def _find(model: Model, name: str, direction: str) -> Port:
+    for p in model.ports:
+        if p.name == name:
+            if p.direction != direction:
+                raise BcdproveError(f"port `{name}` of `{model.top}` is an {p.direction}, "
+                                    f"not an {direction}")
+            return p
+    known = ", ".join(p.name for p in model.ports if p.direction == direction)
+    raise BcdproveError(f"module `{model.top}` has no {direction} port `{name}` "
+                        f"({direction}s: {known or 'none'})")
+
+
+def choose_outputs(model: Model, named: list[str] | None,
+                   msd_first: bool) -> tuple[list[str], str, bool]:
+    """The digit output ports (least significant first), the reason, and whether numbered
+    ports were read most significant first.
+
+    Raises BcdproveError when a named port is not an output or the choice is ambiguous.
+    """
+    if named:
+        ports = [_find(model, n, "output") for n in named]
+        if len({p.name for p in ports}) != len(ports):
+            raise BcdproveError(f"--out names a port twice: {', '.join(named)}")
+        if len(ports) == 1:
+            return [ports[0].name], f"output `{ports[0].name}`: named with --out", False
+        return ([p.name for p in ports],
+                f"outputs {_names(ports)}: named with --out, least significant digit first", False)
+    outputs = model.outputs
+    if not outputs:
+        raise BcdproveError(f"module `{model.top}` has no output port to read digits from")
+    if len(outputs) == 1:
+        return [outputs[0].name], f"output `{outputs[0].name}`: the only output", False
+    groups = _digit_groups(outputs, msd_first)
+    if len(groups) == 1:
+        ordered, pattern = groups[0]
+        rest = [p for p in outputs if p.name not in ordered]
+        ignored = f"; {_names(rest)} ignored" if rest else ""
+        return ordered, (f"outputs {', '.join(f'`{n}`' for n in ordered)}: inferred from the "
+                         f"{pattern}, least significant digit first{ignored}"), msd_first
+    wide = [p for p in outputs if p.width >= 4]
+    if not groups and len(wide) == 1:
+        rest = [p for p in outputs if p is not wide[0]]
+        return [wide[0].name], (f"output `{wide[0].name}`: the only output at least 4 bits wide "
+                                f"({_names(rest)} ignored)"), False
+    raise BcdproveError(f"module `{model.top}` has several outputs ({_names(outputs)}) and no "
+                        f"single digit naming pattern; name the digit ports with --out PORT "
+                        f"(a comma-separated list, least significant digit first)")
+
+
+def _digit_groups(outputs: list[Port], msd_first: bool) -> list[tuple[list[str], str]]:
+    """Sets of outputs (each at most 4 bits) named as a run of digits, least significant first.
+
+    Two naming families are recognised: place words (``ones``, ``tens``, ``hundreds`` ...,
+    with any common prefix and suffix) and numbered names (``bcd0``, ``digit_1``, ``d2`` ...),
+    whose indices must run 0, 1, 2 ... without gaps.  Only runs of two or more count.
+    """
+    small = [p for p in outputs if p.width <= 4]
+    found: list[tuple[list[str], str]] = []
+    by_affix: dict[tuple[str, str], dict[int, str]] = {}
+    for p in small:
+        lowered = p.name.lower()
+        for word in _PLACE_ORDER:
+            at = lowered.find(word)
+            if at < 0:
+                continue
+            key = (lowered[:at], lowered[at + len(word):])
+            by_affix.setdefault(key, {}).setdefault(_PLACE_WORDS[word], p.name)
+            break
+    for places in by_affix.values():
+        run = _run_from_zero(places)
+        if run:
+            found.append((run, "place names (ones, tens, hundreds, ...)"))
+    by_stem: dict[tuple[str, str], dict[int, str]] = {}
+    for p in small:
+        match = _NUMBERED.match(p.name)
+        if match:
+            key = (match.group("stem"), match.group("tail"))
+            by_stem.setdefault(key, {})[int(match.group("index"))] = p.name
+    for (stem, tail), places in by_stem.items():
+        run = _run_from_zero(places)
+        if run:
+            if msd_first:
+                run = run[::-1]
+            order = "most significant first (--msd-first)" if msd_first else "index 0 least significant"
+            found.append((run, f"numbered names `{stem}0{tail}`.. ({order})"))
+    return found
+
+
+def _run_from_zero(places: dict[int, str]) -> list[str] | None:
+    if len(places) < 2 or sorted(places) != list(range(len(places))):
+        return None
+    return [places[i] for i in range(len(places))]

@@ -46,6 +46,7 @@ class Bin2BcdProblem:
     ties: dict[str, int] = field(default_factory=dict)
     msd_first: bool = False
     digit_sources: list[str] = field(default_factory=list)   # "bcd[7:4]" per digit, for reports
+    _ok_node: Node | None = field(default=None, repr=False, compare=False)
 
     # reference -------------------------------------------------------------------------
     @property
@@ -85,6 +86,33 @@ class Bin2BcdProblem:
     def port_of(self, leaf: Node) -> str | None:
         """The input port an INPUT leaf stands for (None for unknown values)."""
         return leaf.params[0] if leaf.op == Op.INPUT else None
+
+    def check_width(self) -> int:
+        """Bits enough for both ``x`` and any D-digit value, plus one so nothing wraps."""
+        return max(self.width, (self.capacity() - 1).bit_length()) + 1
+
+    def digits_ok(self) -> Node:
+        """A 1-bit node, 1 exactly when the digits are right for ``x``.
+
+        Right means every digit is at most 9 and ``sum(d_i * 10**i) == x`` at
+        :meth:`check_width` bits; a digit vector with every digit at most 9 is a unique
+        representation, so this is digit-for-digit equality with the decimal digits of ``x``
+        (and it is 0 for every ``x`` of 10**D or more).  Built from shifts and adds only, so a
+        bit-parallel simulator evaluates it cheaply.
+        """
+        if self._ok_node is None:
+            graph = self.model.graph
+            wide = self.check_width()
+            three, one = graph.const(3, wide), graph.const(1, wide)
+            value = graph.zero(wide)
+            ok = graph.const(1, 1)
+            for digit in reversed(self.digits):
+                ok = graph.and_(ok, graph.ult(digit, graph.const(10, 4)))
+                # 10 * v == 8 * v + 2 * v
+                value = graph.add(graph.add(graph.shl(value, three), graph.shl(value, one)),
+                                  graph.zext(digit, wide))
+            self._ok_node = graph.and_(ok, graph.eq(value, graph.zext(self.x, wide)))
+        return self._ok_node
 
     # replay --------------------------------------------------------------------------------
     def evaluate(self, x: int, free_values: Mapping[int, int] | None = None) -> list[int]:

@@ -1,0 +1,121 @@
+"""The public API of ``bcdprove check``: read a design, build the binary-to-BCD problem, decide it.
+
+:func:`check` reads Verilog; :func:`check_model` takes a model already built (tests, other
+front ends).  Both return a :class:`CheckResult` holding the model, the problem and the
+verdict.  When the design shows fewer digits than its inputs need, the verdict is disproved
+with 10**D (the smallest value D digits cannot show, replayed like any counterexample), and
+``digits_check`` holds a second verdict: whether the D digits present are right for every
+input below 10**D.
+"""
+from __future__ import annotations
+
+import time
+from dataclasses import dataclass, field
+from typing import Mapping, Optional, Sequence
+
+from .engines.base import DISPROVED, PROVED, UNKNOWN, Budget, Verdict
+from .engines.registry import EngineOptions, make_engine
+from .model.design import Model
+from .spec.bin2bcd import Bin2BcdProblem, build_problem
+
+EXIT_CODES = {PROVED: 0, DISPROVED: 1, UNKNOWN: 3}
+
+
+@dataclass
+class CheckResult:
+    """Everything a report needs: what was read, what was asked, what was found."""
+
+    model: Model
+    problem: Bin2BcdProblem
+    verdict: Verdict
+    engine: str
+    seconds: float
+    digits_check: Optional[Verdict] = None     # only when D digits cannot hold every input
+    timeout: Optional[float] = None
+    notes: list[str] = field(default_factory=list)
+
+    @property
+    def exit_code(self) -> int:
+        """0 proved, 1 disproved, 3 unknown (2 is for input errors, raised before a result)."""
+        return EXIT_CODES[self.verdict.status]
+
+
+def _as_list(names: str | Sequence[str] | None) -> list[str] | None:
+    if names is None:
+        return None
+    if isinstance(names, str):
+        names = names.split(",")
+    cleaned = [n.strip() for n in names if n.strip()]
+    return cleaned or None
+
+
+def check(files: Sequence[str], top: str, *, parameters: Mapping[str, int] | None = None,
+          include_dirs: Sequence[str] = (), defines: Mapping[str, str] | None = None,
+          **options) -> CheckResult:
+    """Read ``files`` with ``top`` as the top module and check it; see :func:`check_model`.
+
+    Raises BcdproveError for anything wrong with the input (files, ports, options).
+    """
+    from .verilog import read_design
+
+    model = read_design(list(files), top, dict(parameters or {}), include_dirs=list(include_dirs),
+                        defines=dict(defines or {}))
+    return check_model(model, **options)
+
+
+def check_model(model: Model, *, inputs: str | Sequence[str] | None = None,
+                outputs: str | Sequence[str] | None = None, msd_first: bool = False,
+                max_input: int | None = None, ties: Mapping[str, int] | None = None,
+                engine: str = "auto", timeout: float | None = None, exhaustive_limit: int = 24,
+                random_vectors: int = 1 << 20, seed: int = 1,
+                smt_form: str = "multiply") -> CheckResult:
+    """Check ``model`` against the binary-to-BCD specification with engine ``engine``.
+
+    ``timeout`` (seconds) bounds the whole check, both verdicts included; running out gives
+    unknown with what was covered.  Other options: see EngineOptions and build_problem.
+    """
+    started = time.monotonic()
+    problem = build_problem(model, inputs=_as_list(inputs), outputs=_as_list(outputs),
+                            msd_first=msd_first, max_input=max_input, ties=ties)
+    options = EngineOptions(exhaustive_limit=exhaustive_limit, random_vectors=random_vectors,
+                            seed=seed, smt_form=smt_form)
+    runner = make_engine(engine, options)
+    budget = Budget(timeout)
+    digits_check = None
+    if problem.fits():
+        verdict = runner.run(problem, budget)
+    else:
+        verdict, digits_check = _check_too_few_digits(problem, runner, budget)
+    _assert_sound(verdict)
+    if digits_check is not None:
+        _assert_sound(digits_check)
+    return CheckResult(model=model, problem=problem, verdict=verdict, engine=engine,
+                       seconds=time.monotonic() - started, digits_check=digits_check,
+                       timeout=timeout, notes=list(model.notes))
+
+
+def _check_too_few_digits(problem: Bin2BcdProblem, runner, budget: Budget) -> tuple[Verdict, Verdict]:
+    capacity = problem.capacity()
+    shown = problem.replay(capacity)
+    if shown is None:   # replay treats every x >= 10**D as wrong; reaching here is a bug
+        raise AssertionError(f"{capacity} replayed as right with {problem.digit_count} digits")
+    shown.note = (f"{capacity:,} is the smallest value {problem.digit_count} digits cannot show; "
+                  f"{problem.width} bits need {problem.needed_digits()} digits")
+    below = problem.below_capacity()
+    digits_check = runner.run(below, budget)
+    verdict = Verdict(DISPROVED, runner.name, digits_check.seconds, counterexample=shown,
+                      covered=f"too few digits: inputs {capacity:,} .. {problem.top_value:,} "
+                              f"cannot be shown",
+                      stats={"digits_check": digits_check.status})
+    return verdict, digits_check
+
+
+def _assert_sound(verdict: Verdict) -> None:
+    """The last line of defence: no disproof leaves here without a replayed counterexample."""
+    if verdict.status == DISPROVED:
+        found = verdict.counterexample
+        if found is None or not found.replayed:
+            raise AssertionError(f"engine {verdict.engine} disproved without a replayed "
+                                 f"counterexample")
+    if verdict.status not in EXIT_CODES:
+        raise AssertionError(f"engine {verdict.engine} returned status {verdict.status!r}")

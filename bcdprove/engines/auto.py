@@ -1,0 +1,63 @@
+"""The auto engine: a quick random bug hunt, then the strongest engine that fits the width.
+
+Order: random (``hunt_vectors``), then exhaustive when the contract has at most
+``2**exhaustive_limit`` inputs, else stages (when installed), else the smt miter; when
+stages ends unknown, the smt miter gets what is left of the budget.  The verdict is the
+first decisive one; otherwise unknown, with what every engine covered.
+"""
+from __future__ import annotations
+
+import time
+
+from .base import DISPROVED, PROVED, UNKNOWN, Budget, Verdict
+from .registry import EngineOptions, stage_engine
+
+
+class AutoEngine:
+    name = "auto"
+
+    def __init__(self, options: EngineOptions | None = None) -> None:
+        self.options = options or EngineOptions()
+
+    def _plan(self, problem) -> list:
+        from .exhaustive import ExhaustiveEngine
+        from .random_sim import RandomEngine
+        from .smt_miter import SmtEngine
+
+        plan = [RandomEngine(self.options.hunt_vectors, self.options.seed)]
+        exhaustive = ExhaustiveEngine(self.options.exhaustive_limit)
+        if exhaustive.applies(problem):
+            plan.append(exhaustive)
+            return plan
+        stages = stage_engine(self.options)
+        if stages is not None:
+            plan.append(stages)
+        plan.append(SmtEngine(self.options.smt_form))
+        return plan
+
+    def run(self, problem, budget: Budget) -> Verdict:
+        started = time.monotonic()
+        covered: list[str] = []
+        reasons: list[str] = []
+        stats: dict = {"engines": []}
+        for engine in self._plan(problem):
+            if budget.expired():
+                reasons.append(f"{engine.name}: not started, the time limit was reached")
+                break
+            verdict = engine.run(problem, budget)
+            stats["engines"].append({"engine": verdict.engine, "status": verdict.status,
+                                     "seconds": round(verdict.seconds, 3), **verdict.stats})
+            if verdict.covered:
+                covered.append(verdict.covered)
+            if verdict.status in (PROVED, DISPROVED):
+                if verdict.status == DISPROVED and (verdict.counterexample is None
+                                                    or not verdict.counterexample.replayed):
+                    reasons.append(f"{verdict.engine}: a counterexample without replay was ignored")
+                    continue
+                return Verdict(verdict.status, f"auto ({verdict.engine})",
+                               time.monotonic() - started, counterexample=verdict.counterexample,
+                               covered="; ".join(covered), stats=stats)
+            if verdict.reason and verdict.engine != "random":
+                reasons.append(f"{verdict.engine}: {verdict.reason}")
+        return Verdict(UNKNOWN, "auto", time.monotonic() - started, covered="; ".join(covered),
+                       reason="; ".join(reasons) or "no engine decided", stats=stats)

@@ -1,0 +1,74 @@
+"""The ``--json`` report: exactly one JSON object describing one check.
+
+Numbers that can exceed what JSON readers hold exactly (inputs, digit values) are decimal
+strings; counts and seconds are plain numbers.
+"""
+from __future__ import annotations
+
+import json
+
+from ..engines.base import Counterexample, Verdict
+
+
+def counterexample_record(found: Counterexample) -> dict:
+    """inputs {PORT: "DECIMAL"}, expected and actual digits (decimal strings, least significant
+    first), wrong_digits (positions), free_values (unknown values chosen), note."""
+    return {
+        "inputs": {name: str(value) for name, value in found.inputs.items()},
+        "expected": [str(d) for d in found.expected],
+        "actual": [str(d) for d in found.actual],
+        "wrong_digits": list(found.wrong),
+        "free_values": {str(k): str(v) for k, v in found.free_values.items()},
+        "replayed": found.replayed,
+        "note": found.note,
+    }
+
+
+def _verdict_record(verdict: Verdict) -> dict:
+    record = {"verdict": verdict.status, "engine": verdict.engine,
+              "seconds": round(verdict.seconds, 6), "covered": verdict.covered,
+              "reason": verdict.reason, "stats": _plain(verdict.stats)}
+    if verdict.counterexample is not None:
+        record["counterexample"] = counterexample_record(verdict.counterexample)
+    return record
+
+
+def _plain(value):
+    """Stats as JSON-safe values (anything unusual becomes its text)."""
+    if isinstance(value, dict):
+        return {str(k): _plain(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_plain(v) for v in value]
+    if isinstance(value, (bool, int, float, str)) or value is None:
+        return value
+    return str(value)
+
+
+def check_record(result) -> dict:
+    """The report as a dict (see the module docstring for the number convention)."""
+    model, problem = result.model, result.problem
+    record = _verdict_record(result.verdict)
+    record["engine_requested"] = result.engine
+    record["seconds"] = round(result.seconds, 6)
+    record["design"] = {
+        "files": list(model.files),
+        "top": model.top,
+        "parameters": {k: str(v) for k, v in model.parameters.items()},
+        "ports": {"input": problem.input_ports[0], "outputs": list(problem.output_ports),
+                  "digit_bits": list(problem.digit_sources), "reasons": list(problem.reasons),
+                  "ties": {k: str(v) for k, v in problem.ties.items()},
+                  "msd_first": problem.msd_first},
+        "widths": {"input": problem.width, "digits": problem.digit_count,
+                   "digits_needed": problem.needed_digits()},
+        "max_input": None if problem.max_input is None else str(problem.max_input),
+    }
+    if result.digits_check is not None:
+        record["digits_check"] = {"below": str(problem.capacity()),
+                                  **_verdict_record(result.digits_check)}
+    record["notes"] = list(result.notes)
+    return record
+
+
+def check_json(result) -> str:
+    """The report as one line of JSON text."""
+    return json.dumps(check_record(result), sort_keys=False)

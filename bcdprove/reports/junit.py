@@ -1,0 +1,51 @@
+"""The ``--junit`` report: JUnit XML with one testsuite and one testcase per check.
+
+Mapping: proved passes; disproved is a ``failure``; unknown is an ``error`` (not
+``skipped``), because CI tools usually count skipped tests as green and an undecided check
+must not look like a pass.  When the design shows too few digits there are two testcases:
+the whole contract, and the digits present below 10**D.
+"""
+from __future__ import annotations
+
+import xml.etree.ElementTree as ElementTree
+
+from ..engines.base import DISPROVED, UNKNOWN, Verdict
+
+
+def _case(suite, name: str, classname: str, verdict: Verdict, detail: str) -> None:
+    case = ElementTree.SubElement(suite, "testcase", name=name, classname=classname,
+                                  time=f"{verdict.seconds:.3f}")
+    if verdict.status == DISPROVED:
+        found = verdict.counterexample
+        message = "counterexample: " + ", ".join(f"{k}={v}" for k, v in found.inputs.items())
+        element = ElementTree.SubElement(case, "failure", message=message, type="disproved")
+        element.text = detail
+    elif verdict.status == UNKNOWN:
+        element = ElementTree.SubElement(case, "error", message=verdict.reason or "not decided",
+                                         type="unknown")
+        element.text = detail
+    else:
+        out = ElementTree.SubElement(case, "system-out")
+        out.text = verdict.covered
+
+
+def check_junit(result) -> str:
+    """The XML document as text (with an XML declaration)."""
+    from .text import check_report
+
+    problem = result.problem
+    checks = [(f"{result.model.top}: bin2bcd", result.verdict)]
+    if result.digits_check is not None:
+        checks.append((f"{result.model.top}: bin2bcd below {problem.capacity()}",
+                       result.digits_check))
+    suite = ElementTree.Element(
+        "testsuite", name="bcdprove", tests=str(len(checks)),
+        failures=str(sum(v.status == DISPROVED for _, v in checks)),
+        errors=str(sum(v.status == UNKNOWN for _, v in checks)), skipped="0",
+        time=f"{result.seconds:.3f}")
+    detail = check_report(result)
+    for name, verdict in checks:
+        _case(suite, name, f"bcdprove.{result.model.top}", verdict, detail)
+    ElementTree.indent(suite)
+    return '<?xml version="1.0" encoding="UTF-8"?>\n' + ElementTree.tostring(
+        suite, encoding="unicode") + "\n"

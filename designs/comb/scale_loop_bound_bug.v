@@ -1,0 +1,23 @@
+// Parcel-scale readout, shift-and-add-3 loop, 12-bit to 4 digits. Expected: disproved (bit loop starts one bit low, the top input bit is never read).
+module scale_loop_bound_bug #(
+    parameter W = 12,
+    parameter D = 4
+) (
+    input  [W-1:0]   grams,
+    output [4*D-1:0] bcd
+);
+    reg [4*D-1:0] digits;
+    integer i, j;
+
+    always @* begin
+        digits = 0;
+        for (i = W - 2; i >= 0; i = i - 1) begin
+            for (j = 0; j < D; j = j + 1)
+                if (digits[4*j +: 4] >= 4'd5)
+                    digits[4*j +: 4] = digits[4*j +: 4] + 4'd3;
+            digits = {digits[4*D-2:0], grams[i]};
+        end
+    end
+
+    assign bcd = digits;
+endmodule

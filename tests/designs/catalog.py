@@ -1,0 +1,144 @@
+"""Reading designs/catalog.json and turning its entries into Icarus test benches.
+
+The catalogue is the contract between the shipped designs and everything that checks them:
+each entry names a file, its top module, the parameters it is checked at, the binary input,
+the output ports (least significant digit first), the inputs that must be held, and the
+expected verdict with, for a buggy design, the smallest input it gets wrong.
+"""
+from __future__ import annotations
+
+import json
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+REPOSITORY = Path(__file__).resolve().parents[2]
+DESIGNS = REPOSITORY / "designs"
+CATALOG = DESIGNS / "catalog.json"
+
+
+@dataclass(frozen=True)
+class Entry:
+    """One catalogue entry; ``raw`` keeps every field, including ones not modelled here."""
+
+    file: str
+    top: str
+    width: int
+    parameters: dict[str, int]
+    inputs: list[str]
+    outputs: list[str]
+    clocked: bool
+    expected: str
+    bug: str | None
+    first_failing_input: int | None
+    max_input: int | None
+    ties: dict[str, int]
+    raw: dict[str, Any] = field(repr=False)
+
+    @property
+    def path(self) -> Path:
+        return DESIGNS / self.file
+
+    @property
+    def include_dirs(self) -> list[Path]:
+        return [DESIGNS / d for d in self.raw.get("include_dirs", [])]
+
+    @property
+    def slow(self) -> bool:
+        """Entries marked slow are simulated only in the long run (``-m slow``)."""
+        return bool(self.raw.get("slow", False))
+
+    @property
+    def name(self) -> str:
+        params = ",".join(f"{k}={v}" for k, v in sorted(self.parameters.items()))
+        return f"{self.file}[{params}]" if params else self.file
+
+
+def load_catalog(path: Path = CATALOG) -> list[Entry]:
+    """Every entry of the catalogue, in file order; a missing required field raises KeyError."""
+    data = json.loads(path.read_text())
+    entries = []
+    for item in data["designs"]:
+        entries.append(Entry(
+            file=item["file"], top=item["top"], width=int(item["width"]),
+            parameters=dict(item.get("parameters", {})), inputs=list(item["in"]),
+            outputs=list(item["out"]), clocked=bool(item["clocked"]),
+            expected=item["expected"], bug=item["bug"],
+            first_failing_input=item["first_failing_input"], max_input=item["max_input"],
+            ties=dict(item.get("ties", {})), raw=item))
+    return entries
+
+
+def reference_bcd(value: int) -> int:
+    """Packed BCD of ``value``, one nibble per decimal digit (Python str(int) as reference code)."""
+    return int(str(value), 16)
+
+
+def expected_display(entry: Entry, value: int) -> int:
+    """What the outputs of a correct design show for ``value``, read as one packed word.
+
+    A design with ``"saturates_at_max": true`` shows ``max_input`` for every larger input.
+    """
+    if entry.max_input is not None and value > entry.max_input and entry.raw.get("saturates_at_max"):
+        value = entry.max_input
+    return reference_bcd(value)
+
+
+def combinational_bench(entry: Entry, vector_file: Path, count: int) -> str:
+    """Test bench text: read ``count`` input values from ``vector_file`` and print the outputs.
+
+    The first line printed is ``widths`` and the bit width of each output port, then one line per
+    vector with each output port in hex, in catalogue order. Ports are printed through the
+    instance so that their own widths, not the bench's wires, decide the digits.
+    """
+    (data_input,) = entry.inputs
+    bus = max(entry.width, 1) + 8
+    lines = ["module bcdprove_bench;",
+             f"    reg [{bus - 1}:0] stimulus [0:{count - 1}];",
+             f"    reg [{bus - 1}:0] value;",
+             "    integer i;"]
+    for port in entry.outputs:
+        lines.append(f"    wire [1023:0] seen_{port};")
+    connections = [f".{data_input}(value[{entry.width - 1}:0])"]
+    connections += [f".{port}({value})" for port, value in entry.ties.items()]
+    connections += [f".{port}(seen_{port})" for port in entry.outputs]
+    overrides = ", ".join(f".{k}({v})" for k, v in entry.parameters.items())
+    header = f"{entry.top} #({overrides})" if overrides else entry.top
+    lines.append(f"    {header} dut ({', '.join(connections)});")
+    widths = " ".join("%0d" for _ in entry.outputs)
+    width_args = ", ".join(f"$bits(dut.{port})" for port in entry.outputs)
+    shown = " ".join("%h" for _ in entry.outputs)
+    shown_args = ", ".join(f"dut.{port}" for port in entry.outputs)
+    lines += ["    initial begin",
+              f"        $readmemh(\"{vector_file}\", stimulus);",
+              f"        $display(\"widths {widths}\", {width_args});",
+              f"        for (i = 0; i < {count}; i = i + 1) begin",
+              "            value = stimulus[i];",
+              "            #1;",
+              f"            $display(\"{shown}\", {shown_args});",
+              "        end",
+              "        $finish;",
+              "    end",
+              "endmodule", ""]
+    return "\n".join(lines)
+
+
+def parse_bench_output(text: str, count: int) -> list[int | None]:
+    """Packed display word per vector (least significant port lowest); None where any bit is x or z."""
+    lines = [line.split() for line in text.splitlines() if line.strip()]
+    header = next(i for i, words in enumerate(lines) if words and words[0] == "widths")
+    widths = [int(w) for w in lines[header][1:]]
+    rows = lines[header + 1:header + 1 + count]
+    if len(rows) != count:
+        raise AssertionError(f"bench printed {len(rows)} rows, expected {count}")
+    shown: list[int | None] = []
+    for words in rows:
+        packed, offset, unknown = 0, 0, False
+        for word, width in zip(words, widths):
+            if any(c in "xXzZ" for c in word):
+                unknown = True
+                break
+            packed |= int(word, 16) << offset
+            offset += width
+        shown.append(None if unknown else packed)
+    return shown

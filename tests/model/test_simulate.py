@@ -1,0 +1,211 @@
+"""The lane simulator agrees with scalar evaluate() lane by lane, and is sound when three-valued.
+
+Reference values: ``evaluate`` (scalar, from apply_op) for random DAGs, Python ``str`` for
+decimal digits, and Python int bit arithmetic for pack/unpack.
+"""
+from __future__ import annotations
+
+import random
+
+import pytest
+from hypothesis import given, settings, strategies as st
+
+from bcdprove.model.node import Graph, evaluate
+from bcdprove.model.simulate import Planes, Simulator, counting_planes, pack, simulate, unpack
+from tests.support.converters import (buggy_double_dabble, digit_count, division_by_ten,
+                                      double_dabble)
+
+from .random_dags import random_dag
+
+
+def _decimal_digits(value: int, count: int) -> list[int]:
+    """Decimal digits of ``value``, least significant first (Python ``str`` as reference)."""
+    return [int(c) for c in reversed(str(value).zfill(count))]
+
+
+# pack / unpack / counting_planes -------------------------------------------------------------
+
+@settings(max_examples=100, deadline=None)
+@given(width=st.integers(1, 140), data=st.data())
+def test_pack_puts_bit_i_of_lane_j_at_bit_j_of_plane_i(width, data):
+    values = data.draw(st.lists(st.integers(0, (1 << width) - 1), min_size=1, max_size=70))
+    planes = pack(values, width)
+    assert len(planes) == width
+    for i, plane in enumerate(planes):
+        # Direct definition with Python int bit arithmetic.
+        assert plane == sum(((v >> i) & 1) << j for j, v in enumerate(values))
+    assert unpack(planes, len(values)) == values
+
+
+def test_pack_reduces_values_modulo_the_width():
+    assert unpack(pack([256 + 5, -1], 8), 2) == [5, 255]   # Python: (256+5) % 256, -1 % 256
+
+
+@pytest.mark.parametrize("start,lanes,width", [(0, 64, 6), (5, 100, 9), (1000, 3, 40),
+                                               (2**30 - 7, 50, 31), (0, 1, 1), (123, 777, 12)])
+def test_counting_planes_are_consecutive_values(start, lanes, width):
+    expected = [(start + j) % (1 << width) for j in range(lanes)]   # Python int reference
+    assert unpack(counting_planes(start, lanes, width), lanes) == expected
+
+
+# two-valued agreement with evaluate() --------------------------------------------------------
+
+def _check_against_evaluate(dag, rng, lanes):
+    roots = dag.nodes
+    simulator = Simulator(roots)
+    vectors = [{leaf.id: rng.getrandbits(leaf.width) for leaf in simulator.leaves}
+               for _ in range(lanes)]
+    values = {leaf.id: pack([v[leaf.id] for v in vectors], leaf.width) for leaf in simulator.leaves}
+    results = simulator.run(lanes, values)
+    per_lane = [evaluate(roots, v) for v in vectors]
+    for r, (root, planes) in enumerate(zip(roots, results)):
+        assert len(planes.value) == root.width
+        assert not any(planes.unknown)
+        assert unpack(planes.value, lanes) == [lane[r] for lane in per_lane], root
+
+
+@settings(max_examples=60, deadline=None)
+@given(seed=st.integers(0, 2**32 - 1), operations=st.integers(1, 15), lanes=st.integers(1, 40))
+def test_lanes_equal_scalar_evaluation(seed, operations, lanes):
+    rng = random.Random(seed)
+    dag = random_dag(rng, operations=operations, max_width=130, heavy_width=24, free_leaves=1)
+    _check_against_evaluate(dag, rng, lanes)
+
+
+@pytest.mark.parametrize("seed", range(40))
+def test_lanes_equal_scalar_evaluation_narrow_words(seed):
+    # Narrow words make carries, zero divisors and out-of-range shifts common.
+    rng = random.Random(seed)
+    dag = random_dag(rng, operations=20, max_width=9, free_leaves=1)
+    _check_against_evaluate(dag, rng, 200)
+
+
+def test_wide_words_work():
+    g = Graph()
+    a, b, s = g.input("a", 600), g.input("b", 600), g.input("s", 10)
+    roots = [g.add(a, b), g.ult(a, b), g.shl(a, s), g.ashr(b, s), g.eq(a, g.not_(b))]
+    rng = random.Random(7)
+    vectors = [{a.id: rng.getrandbits(600), b.id: rng.getrandbits(600), s.id: rng.getrandbits(10)}
+               for _ in range(20)]
+    vectors.append({a.id: 5, b.id: (1 << 600) - 6, s.id: 599})
+    got = simulate(roots, {k: [v[k] for v in vectors] for k in vectors[0]})
+    for j, v in enumerate(vectors):
+        assert [lane[j] for lane in got] == [(x, 0) for x in evaluate(roots, v)]
+
+
+def test_missing_input_is_a_key_error_naming_it():
+    g = Graph()
+    x = g.input("meter_count", 8)
+    with pytest.raises(KeyError, match="meter_count"):
+        Simulator([g.add(x, g.const(1, 8))]).run(4, {})
+
+
+def test_constant_roots_fill_every_lane():
+    g = Graph()
+    (result,) = Simulator([g.const(0b101, 3)]).run(5, {})
+    assert result == Planes([0b11111, 0, 0b11111], [0, 0, 0])
+
+
+# three-valued soundness ----------------------------------------------------------------------
+
+def _check_ternary_sound(dag, rng, lanes, tries=6):
+    roots = dag.nodes
+    simulator = Simulator(roots)
+    inputs = [leaf for leaf in simulator.leaves if leaf.op != "free"]
+    frees = [leaf for leaf in simulator.leaves if leaf.op == "free"]
+    vectors = [{leaf.id: rng.getrandbits(leaf.width) for leaf in inputs} for _ in range(lanes)]
+    values = {leaf.id: pack([v[leaf.id] for v in vectors], leaf.width) for leaf in inputs}
+    results = simulator.run(lanes, values)
+    for _ in range(tries):
+        for j, vector in enumerate(vectors):
+            chosen = dict(vector)
+            chosen.update({leaf.id: rng.getrandbits(leaf.width) for leaf in frees})
+            actual = evaluate(roots, chosen)
+            for root, planes, value in zip(roots, results, actual):
+                known = ~unpack(planes.unknown, lanes)[j] & ((1 << root.width) - 1)
+                reported = unpack(planes.value, lanes)[j]
+                assert reported & ~known == 0, "value bits under unknown must be 0"
+                assert value & known == reported, (root, j)
+
+
+@settings(max_examples=40, deadline=None)
+@given(seed=st.integers(0, 2**32 - 1), operations=st.integers(1, 15))
+def test_bits_reported_known_do_not_depend_on_unknown_leaves(seed, operations):
+    rng = random.Random(seed)
+    dag = random_dag(rng, operations=operations, max_width=40, heavy_width=12, free_leaves=2,
+                     leaf_count=2)
+    _check_ternary_sound(dag, rng, lanes=8)
+
+
+def test_known_zero_masks_an_unknown_and_ite_keeps_agreeing_arms():
+    g = Graph()
+    x, u, c = g.input("x", 4), g.free(4, "test"), g.free(1, "test")
+    masked = g.and_(u, g.const(0b0011, 4))
+    agree = g.ite(c, g.or_(x, g.const(0b1000, 4)), g.const(0b1001, 4))
+    results = Simulator([masked, agree]).run(1, {x.id: pack([0b0001], 4)})
+    # AND with known 0 is known 0: only the two low bits stay unknown.
+    assert results[0] == Planes([0, 0, 0, 0], [1, 1, 0, 0])
+    # x | 1000 = 1001 = the other arm: every bit known although the condition is not.
+    assert results[1] == Planes([1, 0, 0, 1], [0, 0, 0, 0])
+
+
+def test_given_unknown_marks_are_honoured():
+    g = Graph()
+    x = g.input("x", 4)
+    (result,) = Simulator([g.not_(x)]).run(2, {x.id: pack([0b0101, 0b0011], 4)},
+                                             unknown={x.id: pack([0b0001, 0], 4)})
+    assert unpack(result.unknown, 2) == [0b0001, 0]
+    assert unpack(result.value, 2) == [0b1010, 0b1100]
+
+
+def test_simulate_reports_unknown_free_bits():
+    g = Graph()
+    x, f = g.input("x", 8), g.free(8, "test")
+    root = g.concat(g.extract(x, 3, 0), g.extract(f, 3, 0))
+    assert simulate([root], {x.id: [0xA5]}) == [[(0x50, 0x0F)]]
+    assert simulate([root], {x.id: [0xA5]}, free={f.id: [0x3C]}) == [[(0x5C, 0)]]
+
+
+# converters from tests/support/converters.py -----------------------------------------------------
+
+def test_worked_example_225():
+    # 225 in BCD is 0010 0010 0101 (common practice).
+    g = Graph()
+    x, digits = double_dabble(g, 8)
+    got = simulate(digits, {x.id: [225]})
+    assert [lane[0] for lane in got] == [(0b0101, 0), (0b0010, 0), (0b0010, 0)]
+
+
+@pytest.mark.parametrize("builder", [double_dabble, division_by_ten])
+def test_converters_give_the_decimal_digits_of_every_10_bit_input(builder):
+    g = Graph()
+    x, digits = builder(g, 10)
+    assert len(digits) == digit_count(10) == 4
+    lanes = 1 << 10
+    results = Simulator(digits).run(lanes, {x.id: counting_planes(0, lanes, 10)})
+    per_digit = [unpack(r.value, lanes) for r in results]
+    for value in range(lanes):
+        assert [d[value] for d in per_digit] == _decimal_digits(value, 4)
+
+
+def test_buggy_converter_is_wrong_at_ten():
+    g = Graph()
+    x, digits = buggy_double_dabble(g, 6)
+    got = simulate(digits, {x.id: [10, 4]})
+    values = [[lane[j][0] for lane in got] for j in range(2)]
+    assert values[0] != _decimal_digits(10, 2)   # 10 = 1010: a 5 is shifted without the +3
+    assert values[1] == _decimal_digits(4, 2)
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("width", [16, 20])
+def test_double_dabble_exhaustive(width):
+    g = Graph()
+    x, digits = double_dabble(g, width)
+    simulator = Simulator(digits)
+    chunk = 1 << 16
+    for start in range(0, 1 << width, chunk):
+        results = simulator.run(chunk, {x.id: counting_planes(start, chunk, width)})
+        per_digit = [unpack(r.value, chunk) for r in results]
+        for j in range(chunk):
+            assert [d[j] for d in per_digit] == _decimal_digits(start + j, len(digits))

@@ -16,16 +16,20 @@ TESTBENCH_MODULE = "bcdprove_tb"
 
 
 def _vectors(result, limit: int) -> list[tuple[int, dict[str, int]]]:
-    """(x, other input values) pairs: counterexamples, then corners that replay right."""
+    """(x, other input values) pairs: counterexamples the digits can show, corners that
+    replay right, and last a value too large for the digits (it fails whatever the design
+    does, so it goes after every vector that tests the design)."""
     problem = result.problem
     port = problem.input_ports[0]
     free_inputs = [leaf for leaf in problem.free_leaves() if leaf.op == "input"]
     vectors: list[tuple[int, dict[str, int]]] = []
+    too_large: list[tuple[int, dict[str, int]]] = []
     for verdict in (result.verdict, result.digits_check):
         found = verdict.counterexample if verdict is not None else None
         if found is not None:
-            vectors.append((found.inputs[port],
-                            {k: v for k, v in found.inputs.items() if k != port}))
+            x = found.inputs[port]
+            others = {k: v for k, v in found.inputs.items() if k != port}
+            (too_large if x >= problem.capacity() else vectors).append((x, others))
     # Untied inputs need some value for the passing vectors: all zeros, else all ones.
     choices = [{leaf.id: 0 for leaf in free_inputs},
                {leaf.id: (1 << leaf.width) - 1 for leaf in free_inputs}]
@@ -38,7 +42,7 @@ def _vectors(result, limit: int) -> list[tuple[int, dict[str, int]]]:
             if problem.replay(x, choice) is None:
                 vectors.append((x, {leaf.params[0]: choice[leaf.id] for leaf in free_inputs}))
                 break
-    return vectors
+    return vectors + too_large
 
 
 def _digit_check(problem, index: int, expected: int) -> str:
@@ -55,7 +59,7 @@ def _digit_check(problem, index: int, expected: int) -> str:
     return f"{source} !== 4'd{expected}"
 
 
-def testbench(result, limit: int = 64) -> str:
+def write_testbench(result, limit: int = 64) -> str:
     """The test bench text (see the module docstring)."""
     problem, model = result.problem, result.model
     port = problem.input_ports[0]

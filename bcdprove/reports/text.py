@@ -39,7 +39,7 @@ def counterexample_lines(result, found: Counterexample, heading: str = "countere
     first = min(found.wrong) if found.wrong else None
     for i in reversed(range(count)):
         actual = found.actual[i] if i < len(found.actual) else None
-        source = problem.digit_sources[i] if i < len(problem.digit_sources) else "(none)"
+        source = problem.digit_sources[i] if i < len(problem.digit_sources) else "(no output)"
         mark = ""
         if i in found.wrong:
             mark = "<- wrong, first" if i == first else "<- wrong"

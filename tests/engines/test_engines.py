@@ -1,0 +1,149 @@
+"""Each engine's verdicts on correct and deliberately wrong hand-built converters.
+
+Expected verdicts: a shift-and-add-3 converter with the add at digits >= 5 is correct
+(common practice); with the add at >= 4 or >= 6 it is wrong.  Every counterexample is
+checked against Python's int/str and replayed on the model.
+"""
+from __future__ import annotations
+
+import pytest
+
+from bcdprove.engines.base import DISPROVED, PROVED, UNKNOWN, Budget
+from bcdprove.engines.random_sim import corner_values
+from bcdprove.engines.registry import EngineOptions, make_engine
+from bcdprove.errors import BcdproveError
+from bcdprove.spec.bin2bcd import build_problem, decimal_digits
+from tests.spec.hand_models import packed_converter
+
+ENGINES = ["random", "exhaustive", "smt", "auto"]
+SMALL = EngineOptions(random_vectors=1 << 12, hunt_vectors=1 << 10)
+
+
+def _run(engine, problem, seconds=60.0):
+    return make_engine(engine, SMALL).run(problem, Budget(seconds))
+
+
+def _assert_real_counterexample(problem, verdict):
+    found = verdict.counterexample
+    assert found is not None and found.replayed
+    x = found.inputs[problem.input_ports[0]]
+    assert found.expected[:problem.digit_count] == decimal_digits(x, problem.digit_count)  # Python str
+    assert found.actual != decimal_digits(x, problem.digit_count)
+    assert problem.replay(x, {**found.free_values, **{
+        leaf.id: found.inputs[leaf.params[0]] for leaf in problem.free_leaves()
+        if leaf.op == "input"}}) is not None
+
+
+@pytest.mark.parametrize("engine", ENGINES)
+def test_correct_converter(engine):
+    problem = build_problem(packed_converter(10, 4))
+    verdict = _run(engine, problem)
+    # random can only disprove; the others prove
+    assert verdict.status == (UNKNOWN if engine == "random" else PROVED)
+    assert verdict.covered
+    if engine == "random":
+        assert "random vectors passed" in verdict.covered
+
+
+@pytest.mark.parametrize("engine", ENGINES)
+@pytest.mark.parametrize("threshold", [4, 6])
+def test_wrong_converter(engine, threshold):
+    problem = build_problem(packed_converter(10, 4, threshold=threshold))
+    verdict = _run(engine, problem)
+    assert verdict.status == DISPROVED
+    _assert_real_counterexample(problem, verdict)
+
+
+@pytest.mark.parametrize("engine", ENGINES)
+def test_untied_enable_gives_counterexample_naming_it(engine):
+    problem = build_problem(packed_converter(8, 3, enable=True))
+    verdict = _run(engine, problem)
+    assert verdict.status == DISPROVED
+    assert verdict.counterexample.inputs["en"] == 0
+    tied = build_problem(packed_converter(8, 3, enable=True), ties={"en": 1})
+    assert _run(engine, tied).status == (UNKNOWN if engine == "random" else PROVED)
+
+
+@pytest.mark.parametrize("engine", ENGINES)
+def test_unknown_value_hole_is_found(engine):
+    problem = build_problem(packed_converter(8, 3, free_default=True))
+    verdict = _run(engine, problem)
+    assert verdict.status == DISPROVED
+    assert verdict.counterexample.free_values
+    _assert_real_counterexample(problem, verdict)
+
+
+@pytest.mark.parametrize("engine", ["exhaustive", "smt", "auto"])
+def test_max_input_excludes_the_failures(engine):
+    # the first wrong input is found by scalar evaluation against Python str
+    problem = build_problem(packed_converter(8, 3, threshold=6))
+    first_bad = next(v for v in range(256)
+                     if problem.evaluate(v) != decimal_digits(v, 3))     # reference: Python str
+    limited = build_problem(packed_converter(8, 3, threshold=6), max_input=first_bad - 1)
+    assert _run(engine, limited).status == PROVED
+    at = build_problem(packed_converter(8, 3, threshold=6), max_input=first_bad)
+    verdict = _run(engine, at)
+    assert verdict.status == DISPROVED
+    assert verdict.counterexample.inputs["bin"] == first_bad
+
+
+def test_exhaustive_finds_the_smallest_failing_input():
+    problem = build_problem(packed_converter(8, 3, threshold=4))
+    first_bad = next(v for v in range(256) if problem.evaluate(v) != decimal_digits(v, 3))
+    verdict = _run("exhaustive", problem)
+    assert verdict.counterexample.inputs["bin"] == first_bad
+
+
+def test_exhaustive_refuses_past_its_limit():
+    problem = build_problem(packed_converter(12, 4))
+    verdict = make_engine("exhaustive", EngineOptions(exhaustive_limit=10)).run(problem, Budget())
+    assert verdict.status == UNKNOWN and "limit" in verdict.reason
+
+
+def test_exhaustive_chunks_cover_every_input():
+    from bcdprove.engines.exhaustive import ExhaustiveEngine
+    problem = build_problem(packed_converter(10, 4))
+    verdict = ExhaustiveEngine(chunk_bits=6).run(problem, Budget())
+    assert verdict.status == PROVED and verdict.stats["inputs"] == 1024
+    wrong = build_problem(packed_converter(10, 4, threshold=6))
+    last_bad = max(v for v in range(1024) if wrong.evaluate(v) != decimal_digits(v, 4))
+    limited = build_problem(packed_converter(10, 4, threshold=6), max_input=last_bad)
+    first = ExhaustiveEngine(chunk_bits=6).run(limited, Budget())
+    assert first.status == DISPROVED
+
+
+@pytest.mark.parametrize("form", ["divide", "multiply"])
+def test_both_smt_forms_agree(form):
+    engine = make_engine("smt", EngineOptions(smt_form=form))
+    assert engine.run(build_problem(packed_converter(10, 4)), Budget()).status == PROVED
+    wrong = build_problem(packed_converter(10, 4, threshold=4))
+    verdict = engine.run(wrong, Budget())
+    assert verdict.status == DISPROVED
+    _assert_real_counterexample(wrong, verdict)
+
+
+def test_smt_form_is_checked():
+    with pytest.raises(BcdproveError, match="smt-form"):
+        make_engine("smt", EngineOptions(smt_form="guess"))
+
+
+def test_unknown_engine_name():
+    with pytest.raises(BcdproveError, match="choose one of"):
+        make_engine("magic")
+
+
+def test_expired_budget_gives_unknown_with_reason():
+    problem = build_problem(packed_converter(10, 4))
+    for engine in ("exhaustive", "smt", "random"):
+        verdict = make_engine(engine, SMALL).run(problem, Budget(seconds=0.0))
+        assert verdict.status == UNKNOWN
+        assert verdict.reason
+
+
+def test_corner_values():
+    corners = corner_values(8, 255)
+    # common practice: 0, 1, all-ones, powers of two and of ten with neighbours, the top
+    for v in (0, 1, 255, 128, 127, 9, 10, 99, 100, 254):
+        assert v in corners
+    assert len(corners) == len(set(corners)) and max(corners) <= 255
+    assert max(corner_values(8, 150)) == 150

@@ -17,12 +17,13 @@ import ply.yacc
 import pyverilog
 from pyverilog.vparser import ast as vast
 
-from ..errors import BcdproveError
+from ..errors import BcdproveError, UnsupportedConstruct
 from ..model.design import SourceLocation
 from .preprocess import Preprocessed
 from . import _grammar
+from ._grammar import FillConst, Int, Logic, LoopDeclaration
 
-__all__ = ["parse", "location"]
+__all__ = ["parse", "location", "FillConst", "Int", "Logic", "LoopDeclaration"]
 
 _PARSER: Optional["_grammar.ExtendedParser"] = None
 
@@ -39,7 +40,8 @@ def parse(pre: Preprocessed) -> vast.Source:
         return parser.parse_text(pre.text)
     except _grammar.SyntaxProblem as problem:
         file, line = pre.origin(problem.line)
-        raise BcdproveError(problem.message, file, line) from None
+        kind = UnsupportedConstruct if problem.unsupported else BcdproveError
+        raise kind(problem.message, file, line) from None
     except RecursionError:
         raise BcdproveError("syntax error: nesting too deep to parse", pre.origin(1)[0]) from None
 

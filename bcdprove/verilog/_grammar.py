@@ -111,8 +111,10 @@ class ExtendedParser(_base.VerilogParser):
         self.lexer.recent.clear()
         try:
             return self.parser.parse(text, lexer=self.lexer)
-        except _base.ParseError as error:
-            raise SyntaxProblem(f"syntax error: {error}", self._current_line()) from None
+        except _base.ParseError:
+            # Only pyverilog's task-declaration check still raises this (without a line).
+            raise SyntaxProblem("syntax error: declaration not allowed here",
+                                self._current_line()) from None
 
     # -- errors ---------------------------------------------------------------------------
     def _current_line(self) -> int:
@@ -333,12 +335,52 @@ class ExtendedParser(_base.VerilogParser):
             self._problem(f"supply net {name!r} cannot be an array", lineno)
 
     def create_declassign(self, sigtypes, name, assign, width=None, lineno=0):
+        """``wire w = e`` is a net declaration assignment: [Wire, Assign] (continuous).
+        ``reg r = e`` / ``logic r = e`` is a variable initial value (clause 6.2.1): the
+        value goes into the Reg's ``value`` (an Rvalue) and no Assign is produced.
+        """
         if not {"wire", "reg", "logic", "tri"} & set(sigtypes):
             self._problem(f"declaration of {name!r} with a value needs wire, reg or logic",
                           lineno)
         made = self.create_decl(sigtypes, name, width=width, lineno=lineno)
-        made.append(assign)
+        variables = [node for node in made if isinstance(node, vast.Reg)]
+        if variables:
+            for variable in variables:
+                variable.value = assign.right
+        else:
+            made.append(assign)
         return made
+
+    def p_declassign(self, p):
+        'declassign : sigtypes declassign_elements SEMICOLON'
+        p[0] = self._declassigns(p[1], None, p[2], p.lineno(1))
+        p.set_lineno(0, p.lineno(1))
+
+    def p_declassign_width(self, p):
+        'declassign : sigtypes width declassign_elements SEMICOLON'
+        p[0] = self._declassigns(p[1], p[2], p[3], p.lineno(1))
+        p.set_lineno(0, p.lineno(1))
+
+    def _declassigns(self, sigtypes, width, elements, lineno):
+        made = []
+        for index, (name, assign) in enumerate(elements):
+            made.extend(self.create_declassign(sigtypes, name, assign,
+                                               width=copy.deepcopy(width) if index else width,
+                                               lineno=assign.lineno))
+        return vast.Decl(tuple(made), lineno=lineno)
+
+    def p_declassign_elements(self, p):
+        """declassign_elements : declassign_elements COMMA declassign_element
+        | declassign_element
+        """
+        p[0] = p[1] + (p[3],) if len(p) == 4 else (p[1],)
+        p.set_lineno(0, p.lineno(1))
+
+    def p_declassign_element_delay(self, p):
+        'declassign_element : delays ID EQUALS delays rvalue'
+        target = vast.Lvalue(vast.Identifier(p[2], lineno=p.lineno(2)), lineno=p.lineno(2))
+        p[0] = (p[2], vast.Assign(target, p[5], p[1], p[4], lineno=p.lineno(2)))
+        p.set_lineno(0, p.lineno(2))
 
     def p_intdecl(self, p):
         'intdecl : INT integernamelist SEMICOLON'

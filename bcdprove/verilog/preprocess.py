@@ -19,6 +19,7 @@ __all__ = ["Preprocessed", "preprocess"]
 
 MAX_INCLUDE_DEPTH = 50
 _MAX_EXPANSION_DEPTH = 64
+_MAX_EXPANSION_CHARS = 1_000_000   # stops macros that double at every level
 
 _IDENTIFIER = re.compile(r"[A-Za-z_][A-Za-z0-9_$]*")
 _NUMBER = re.compile(r"[0-9_]*(\s*'[sS]?[bBoOdDhH]\s*[0-9a-fA-FxXzZ?_]+)?")
@@ -529,7 +530,11 @@ def _expand(macros: Mapping[str, _Macro], macro: _Macro, actuals: Optional[list[
             raise _ExpansionError(f"macro `{macro.name} takes {len(macro.formals)} "
                                   f"argument(s), {len(actuals)} given")
         body = _substitute(body, dict(zip(macro.formals, actuals)))
-    return _expand_text(macros, body, depth + 1)
+    text = _expand_text(macros, body, depth + 1)
+    if len(text) > _MAX_EXPANSION_CHARS:
+        raise _ExpansionError(f"macro `{macro.name} expands to more than "
+                              f"{_MAX_EXPANSION_CHARS} characters")
+    return text
 
 
 def _substitute(body: str, values: Mapping[str, str]) -> str:

@@ -19,6 +19,9 @@ from tests.support.icarus import run_icarus
 # Up to this width every input is simulated; beyond it, corners plus seeded random values.
 EXHAUSTIVE_WIDTH = 14
 RANDOM_VECTORS = 300
+# Wider entries already get about 2*W + 2*W*log10(2) corner values, and a structural array of
+# W*D cells costs tens of milliseconds per vector in an event-driven simulator.
+RANDOM_VECTORS_WIDE = 64
 # A buggy design whose smallest failing input is at most this is checked on every value below it.
 EXHAUSTIVE_BELOW_FAILURE = 1 << 16
 
@@ -46,14 +49,15 @@ def vectors_for(entry: Entry) -> list[int]:
         return list(range(top + 1))
     chosen = corner_inputs(entry.width)
     generator = random.Random(f"{entry.name}-vectors")
-    chosen.update(generator.randint(0, top) for _ in range(RANDOM_VECTORS))
+    count = RANDOM_VECTORS if entry.width <= 32 else RANDOM_VECTORS_WIDE
+    chosen.update(generator.randint(0, top) for _ in range(count))
     failure = entry.first_failing_input
     if failure is not None:
         chosen.update({failure, failure - 1, failure + 1})
         if failure <= EXHAUSTIVE_BELOW_FAILURE:
             chosen.update(range(failure))
         else:
-            chosen.update(generator.randint(0, failure - 1) for _ in range(RANDOM_VECTORS))
+            chosen.update(generator.randint(0, failure - 1) for _ in range(count))
     if entry.max_input is not None:
         chosen.update({entry.max_input, entry.max_input + 1})
     return sorted(v for v in chosen if 0 <= v <= top)

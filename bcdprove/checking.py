@@ -33,6 +33,7 @@ class CheckResult:
     digits_check: Optional[Verdict] = None     # only when D digits cannot hold every input
     timeout: Optional[float] = None
     notes: list[str] = field(default_factory=list)
+    overrides: dict[str, int] = field(default_factory=dict)   # parameters the user set
 
     @property
     def exit_code(self) -> int:
@@ -60,7 +61,9 @@ def check(files: Sequence[str], top: str, *, parameters: Mapping[str, int] | Non
 
     model = read_design(list(files), top, dict(parameters or {}), include_dirs=list(include_dirs),
                         defines=dict(defines or {}))
-    return check_model(model, **options)
+    result = check_model(model, **options)
+    result.overrides = dict(parameters or {})
+    return result
 
 
 def check_model(model: Model, *, inputs: str | Sequence[str] | None = None,

@@ -82,6 +82,7 @@ def check_command(
                          ties=parse_assignments(tie or [], "--tie"), engine=engine,
                          timeout=timeout, exhaustive_limit=exhaustive_limit,
                          random_vectors=vectors, seed=seed, smt_form=smt_form)
+    result.overrides = parse_assignments(param or [], "--param")
     if junit:
         from ..reports.junit import check_junit
         _write(junit, check_junit(result), "JUnit report")

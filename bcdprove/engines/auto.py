@@ -1,9 +1,8 @@
 """The auto engine: a quick random bug hunt, then the strongest engine that fits the width.
 
 Order: random (``hunt_vectors``), then exhaustive when the contract has at most
-``2**exhaustive_limit`` inputs, else stages (when installed), else the smt miter; when
-stages ends unknown, the smt miter gets what is left of the budget.  The verdict is the
-first decisive one; otherwise unknown, with what every engine covered.
+``2**exhaustive_limit`` inputs, else stages (when installed), else the smt miter.  The
+verdict is the first decisive one; otherwise unknown, with what every engine covered.
 """
 from __future__ import annotations
 
@@ -30,9 +29,9 @@ class AutoEngine:
             plan.append(exhaustive)
             return plan
         stages = stage_engine(self.options)
-        if stages is not None:
-            plan.append(stages)
-        plan.append(SmtEngine(self.options.smt_form))
+        # Past the exhaustive limit a monolithic miter rarely finishes (see ENGINE.md), so it
+        # is only the fallback when the stage engine is not installed.
+        plan.append(stages if stages is not None else SmtEngine(self.options.smt_form))
         return plan
 
     def run(self, problem, budget: Budget) -> Verdict:

@@ -74,8 +74,9 @@ def write_testbench(result, limit: int = 64) -> str:
         elif p.direction == "output":
             lines.append(f"  wire [{p.width - 1}:0] {p.name};")
     params = ""
-    if model.parameters:
-        params = " #(" + ", ".join(f".{k}({v})" for k, v in sorted(model.parameters.items())) + ")"
+    if result.overrides:
+        # Only what the user overrode: the model's other parameters may be local ones.
+        params = " #(" + ", ".join(f".{k}({v})" for k, v in sorted(result.overrides.items())) + ")"
     connections = ", ".join(f".{p.name}({p.name})" for p in model.ports
                             if p.direction in ("input", "output"))
     lines.append(f"  {model.top}{params} dut ({connections});")

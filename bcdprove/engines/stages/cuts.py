@@ -1,0 +1,216 @@
+"""Cutting a design's logic at a stage: rebuild a cone with the stage's signals as fresh leaves.
+
+A *cut* at stage ``s`` says, for some design nodes, what each of their bits is known to be:
+a bit of digit ``j`` of ``P_s`` (:class:`DigitBit`), a bit of the input ``x``
+(:class:`InputBit`) or a constant (:class:`ConstBit`); bits with no such fact are left as
+fresh unconstrained leaves.  :class:`ConeBuilder` copies the logic that computes a slice of a
+later node into a private *cone graph*, stopping at the cut nodes.  The copy only follows the
+bits a slice needs (extracts are pushed through concatenation, extension, bitwise operators,
+multiplexers, constant shifts and the low bits of additions), so the cone of one digit stays
+the size of one digit's cells however wide the registers around it are.
+
+Leaves of the cone graph are named relative to the stage, so every stage of a loop builds the
+very same nodes: ``d{j}`` (4 bits) is digit ``j`` of the stage, ``b{o}`` (1 bit) is input bit
+``x[W - s - 1 - o]`` (``b0`` is the next bit to shift in), ``e{k}_{j}`` digit ``j`` of the
+proved stage ``k`` steps earlier (older stages stop the copy too: their facts are proved),
+``u{k}_{slot}_{i}`` a cut bit with no fact, ``free{id}_{i}`` bit ``i`` of the design's unknown value node ``id``, ``in{id}_{i}``
+bit ``i`` of another input leaf.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Callable, Optional, Sequence, Union
+
+from ...model.node import Graph, Node, Op, mask
+
+
+@dataclass(frozen=True)
+class DigitBit:
+    digit: int
+    bit: int
+    negated: bool = False      # the design holds the complement of this digit bit
+
+
+@dataclass(frozen=True)
+class InputBit:
+    index: int      # bit of x
+
+
+@dataclass(frozen=True)
+class ConstBit:
+    value: int
+
+
+Fact = Union[DigitBit, InputBit, ConstBit, None]
+
+
+class NotACut(Exception):
+    """The cone reached too far past the cut: the stage signals do not separate it."""
+
+
+@dataclass
+class Cut:
+    """What is known at one stage: per cut node (by id), one fact (or None) per bit."""
+
+    stage: int
+    digits: int                               # digits of P_s that may be non-zero
+    facts: dict[int, list]                    # node id -> [Fact per bit, bit 0 first]
+    slots: dict[int, int]                     # node id -> a small index, for leaf names
+
+    @staticmethod
+    def empty() -> "Cut":
+        return Cut(stage=0, digits=0, facts={}, slots={})
+
+
+def digit_leaf(cone: Graph, digit: int, distance: int = 0) -> Node:
+    """Digit ``digit`` of the current stage, or of the stage ``distance`` steps before it."""
+    return cone.input(f"d{digit}" if distance == 0 else f"e{distance}_{digit}", 4)
+
+
+def input_bit_leaf(cone: Graph, width: int, stage: int, index: int) -> Node:
+    """The leaf for ``x[index]``, named by its distance below the stage's last bit."""
+    return cone.input(f"b{width - stage - 1 - index}", 1)
+
+
+class ConeBuilder:
+    """Copies slices of design nodes into ``cone``, with the nodes of ``cut`` replaced.
+
+    ``limit`` bounds the number of distinct slices copied; past it :class:`NotACut` is
+    raised, because a cone that large means the copy ran back past the stage signals.
+    """
+
+    def __init__(self, cone: Graph, x: Node, width: int, cut: Cut,
+                 owners: Optional[dict[int, Cut]] = None,
+                 zero_test: Optional[Callable[["ConeBuilder", Node], bool]] = None,
+                 limit: int = 200_000):
+        self.cone = cone
+        self.x = x
+        self.width = width
+        self.cut = cut
+        self.limit = limit
+        self.zero_test = zero_test
+        # Every proved stage's nodes stop the copy (node id -> its newest proved cut), not
+        # only the current one: their facts are proved, so reading them as fresh digits is sound.
+        self._owners = owners if owners is not None else {n: cut for n in cut.facts}
+        self._memo: dict[tuple[int, int, int], Node] = {}
+
+    # public --------------------------------------------------------------------------------
+    def whole(self, node: Node) -> Node:
+        return self.slice(node, node.width - 1, 0)
+
+    def slice(self, node: Node, hi: int, lo: int) -> Node:
+        """The cone-graph node equal to ``node[hi:lo]`` given the cut's facts."""
+        key = (node.id, hi, lo)
+        found = self._memo.get(key)
+        if found is None:
+            if len(self._memo) >= self.limit:
+                raise NotACut(f"the cone grew past {self.limit} slices")
+            if (self.zero_test is not None and node.id not in self._owners
+                    and node.op not in Op.LEAVES and self.zero_test(self, node)):
+                found = self.cone.zero(hi - lo + 1)
+            else:
+                found = self._build(node, hi, lo)
+            self._memo[key] = found
+        return found
+
+    # private ---------------------------------------------------------------------------------
+    def _bits(self, make, hi: int, lo: int) -> Node:
+        """Concatenate single-bit nodes ``make(i)`` for i = hi down to lo."""
+        return self.cone.concat(*[make(i) for i in range(hi, lo - 1, -1)])
+
+    def build_plain(self, node: Node) -> Node:
+        """The whole of ``node`` copied from its arguments (no zero test on ``node`` itself)."""
+        return self._build(node, node.width - 1, 0)
+
+    def _cut_bit(self, node: Node, owner: Cut, distance: int, i: int) -> Node:
+        fact = owner.facts[node.id][i]
+        cone = self.cone
+        if isinstance(fact, DigitBit):
+            bit = cone.extract(digit_leaf(cone, fact.digit, distance), fact.bit, fact.bit)
+            return cone.not_(bit) if fact.negated else bit
+        if isinstance(fact, InputBit):
+            return input_bit_leaf(cone, self.width, self.cut.stage, fact.index)
+        if isinstance(fact, ConstBit):
+            return cone.const(fact.value, 1)
+        return cone.input(f"u{distance}_{owner.slots[node.id]}_{i}", 1)
+
+    def _leaf_bit(self, node: Node, i: int) -> Node:
+        if node is self.x:
+            return input_bit_leaf(self.cone, self.width, self.cut.stage, i)
+        if node.op == Op.FREE:
+            return self.cone.input(f"free{node.id}_{i}", 1)
+        return self.cone.input(f"in{node.id}_{i}", 1)
+
+    def _build(self, node: Node, hi: int, lo: int) -> Node:
+        cone = self.cone
+        width = hi - lo + 1
+        op = node.op
+        owner = self._owners.get(node.id)
+        if owner is not None and owner.stage <= self.cut.stage:
+            distance = self.cut.stage - owner.stage
+            return self._bits(lambda i: self._cut_bit(node, owner, distance, i), hi, lo)
+        if op == Op.CONST:
+            return cone.const((node.value >> lo) & mask(width), width)
+        if op in Op.LEAVES:
+            return self._bits(lambda i: self._leaf_bit(node, i), hi, lo)
+        args = node.args
+        if op == Op.EXTRACT:
+            base = node.params[1]
+            return self.slice(args[0], base + hi, base + lo)
+        if op == Op.CONCAT:
+            parts = []
+            offset = node.width
+            for part in args:
+                offset -= part.width
+                top, bottom = offset + part.width - 1, offset
+                if bottom > hi or top < lo:
+                    continue
+                parts.append(self.slice(part, min(hi, top) - offset, max(lo, bottom) - offset))
+            return cone.concat(*parts)
+        if op in (Op.ZEXT, Op.SEXT):
+            inner = args[0]
+            if hi < inner.width:
+                return self.slice(inner, hi, lo)
+            if op == Op.ZEXT:
+                if lo >= inner.width:
+                    return cone.zero(width)
+                return cone.concat(cone.zero(hi - inner.width + 1), self.slice(inner, inner.width - 1, lo))
+            sign = self.slice(inner, inner.width - 1, inner.width - 1)
+            low = [] if lo >= inner.width else [self.slice(inner, inner.width - 1, lo)]
+            return cone.concat(*([sign] * (hi - max(lo, inner.width) + 1) + low))
+        if op in (Op.NOT, Op.AND, Op.OR, Op.XOR):
+            return cone.op(op, *[self.slice(a, hi, lo) for a in args])
+        if op == Op.ITE:
+            return cone.ite(self.slice(args[0], 0, 0), self.slice(args[1], hi, lo),
+                            self.slice(args[2], hi, lo))
+        if op in (Op.ADD, Op.SUB, Op.MUL, Op.NEG):
+            # Low result bits depend only on low argument bits.
+            low = cone.op(op, *[self.slice(a, hi, 0) for a in args])
+            return cone.extract(low, hi, lo)
+        if op in Op.SHIFTS and args[1].op == Op.CONST:
+            return self._constant_shift(node, args[1].value, hi, lo)
+        full = cone.op(op, *[self.whole(a) for a in args], params=node.params)
+        return cone.extract(full, hi, lo)
+
+    def _constant_shift(self, node: Node, amount: int, hi: int, lo: int) -> Node:
+        cone = self.cone
+        source = node.args[0]
+        top = node.width - 1
+        amount = min(amount, node.width)
+        if node.op == Op.SHL:
+            # bit i of the result is source[i - amount], zero below amount
+            if hi < amount:
+                return cone.zero(hi - lo + 1)
+            if lo >= amount:
+                return self.slice(source, hi - amount, lo - amount)
+            return cone.concat(self.slice(source, hi - amount, 0), cone.zero(amount - lo))
+        # right shifts: bit i is source[i + amount]; past the top, zero or the sign
+        fill_bit = None if node.op == Op.LSHR else self.slice(source, top, top)
+        inside_hi = min(hi, top - amount)
+        parts = []
+        if hi > inside_hi:
+            count = hi - max(lo, inside_hi + 1) + 1
+            parts.append(cone.zero(count) if fill_bit is None else cone.concat(*[fill_bit] * count))
+        if inside_hi >= lo:
+            parts.append(self.slice(source, inside_hi + amount, lo + amount))
+        return cone.concat(*parts)

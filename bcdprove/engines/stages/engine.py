@@ -1,0 +1,380 @@
+"""The stage-induction engine: prove a shift-and-correct converter one stage at a time.
+
+The chain: stage 0 (no digits) -> each matched stage in turn -> the outputs.  Each link is a
+set of obligations over a cone cut at the previous stage (:mod:`.cuts`), each checked by z3
+once per shape (:mod:`.obligations`).  A failed obligation is lifted to real inputs and
+replayed (:mod:`.lifting`); only a replay that shows a wrong output disproves.  Anything that
+cannot be cut or decided ends the chain with UNKNOWN and the reason.
+"""
+from __future__ import annotations
+
+import sys
+import time
+from typing import Callable, Optional
+
+from ..base import DISPROVED, PROVED, UNKNOWN, Budget, Counterexample, Verdict
+from ...model.node import Graph, Node, Op, leaves
+from . import obligations as outcomes
+from .cuts import ConeBuilder, ConstBit, Cut, DigitBit, InputBit, NotACut, digit_leaf, input_bit_leaf
+from .lifting import confirm
+from .mining import Candidate, Mining, mine
+from .obligations import ObligationSolver, Outcome
+from .reference import digit_count, step_nodes, top_pair_bound
+
+Progress = Callable[[int, int], None]
+
+
+class _Disproved(Exception):
+    def __init__(self, counterexample: Counterexample, where: str):
+        super().__init__(where)
+        self.counterexample = counterexample
+        self.where = where
+
+
+class StageEngine:
+    """Stage induction for wide binary-to-BCD converters (see the module docstring).
+
+    ``progress(done, total)`` is called with the stage reached after each link of the chain
+    (``total`` is the input width).  ``max_span`` bounds how many stages one link may skip
+    when a stage cannot be cut; ``tries`` bounds the candidates tried per digit;
+    ``obligation_seconds`` caps one solver call.
+    """
+
+    name = "stages"
+
+    def __init__(self, progress: Optional[Progress] = None, max_span: int = 8, tries: int = 6,
+                 obligation_seconds: float = 60.0, seed: int = 2026):
+        self.progress = progress
+        self.max_span = max_span
+        self.tries = tries
+        self.obligation_seconds = obligation_seconds
+        self.seed = seed
+
+    def run(self, problem, budget: Budget) -> Verdict:
+        """Decide ``problem`` (a Bin2BcdProblem); proved only along a chain of unsat obligations."""
+        started = time.monotonic()
+        run = _Run(self, problem, budget)
+        old_limit = sys.getrecursionlimit()
+        sys.setrecursionlimit(max(old_limit, 30_000))
+        try:
+            verdict = run.execute()
+        except _Disproved as found:
+            verdict = Verdict(DISPROVED, self.name, counterexample=found.counterexample,
+                              covered=f"counterexample found at {found.where}, replayed on the model")
+        finally:
+            sys.setrecursionlimit(old_limit)
+        verdict.seconds = time.monotonic() - started
+        verdict.stats.update(run.stats())
+        return verdict
+
+
+class _Run:
+    """One run of the engine on one problem."""
+
+    def __init__(self, engine: StageEngine, problem, budget: Budget):
+        self.engine = engine
+        self.problem = problem
+        self.budget = budget
+        self.width = problem.width
+        self.cone = Graph()
+        self.solver = ObligationSolver()
+        self.mining: Optional[Mining] = None
+        self.mining_seconds = 0.0
+        self.proved_stage = 0
+        self.failures: list[str] = []
+        self.owners: dict[int, Cut] = {}          # node id -> newest proved cut holding it
+        self.zeros: set[int] = set()               # nodes proved to be zero for every input
+        self._zero_tried: dict[int, int] = {}      # node id -> stage of a failed zero proof
+        self._references: dict[tuple[int, int], list[Node]] = {}
+
+    # the chain ---------------------------------------------------------------------------------
+    def execute(self) -> Verdict:
+        problem, width = self.problem, self.width
+        if problem.x.op != Op.INPUT:
+            return self._unknown("the binary input is not a plain input port")
+        started = time.monotonic()
+        self.mining = mine(problem, self.engine.seed)
+        self.mining_seconds = time.monotonic() - started
+        cut = Cut.empty()
+        self._report(0)
+        while cut.stage < width:
+            if self.budget.expired():
+                return self._unknown(f"time limit reached after stage {cut.stage}")
+            following = None
+            last = min(width, cut.stage + self.engine.max_span)
+            for stage in range(cut.stage + 1, last + 1):
+                if self.mining.matched(stage):
+                    following = self._advance(cut, stage)
+                    if following is not None:
+                        break
+            if following is None:
+                break
+            cut = following
+            for node_id in cut.facts:
+                self.owners[node_id] = cut
+            self.proved_stage = cut.stage
+            self._report(cut.stage)
+        return self._final(cut)
+
+    def _advance(self, cut: Cut, stage: int) -> Optional[Cut]:
+        """Prove stage ``stage`` from ``cut``; the new cut, or None (reason in self.failures)."""
+        mining = self.mining
+        builder = self._builder(cut)
+        reference = self._reference(cut.stage, stage)
+        chosen: list[Candidate] = []
+        try:
+            for j in range(digit_count(stage)):
+                picked = None
+                for candidate in mining.candidates[stage][j][:self.engine.tries]:
+                    rebuilt = builder.slice(candidate.node, candidate.low + 3, candidate.low)
+                    if candidate.complemented:
+                        rebuilt = self.cone.not_(rebuilt)
+                    where = f"stage {cut.stage} -> {stage}, digit {j} as {candidate.describe()}"
+                    outcome = self._check(rebuilt, reference[j], cut, where)
+                    if outcome.status == outcomes.PROVED:
+                        picked = candidate
+                        break
+                    self._failed(outcome, cut, where)
+                if picked is None:
+                    if not mining.candidates[stage][j]:
+                        self.failures.append(f"stage {stage}: no signal holds digit {j}")
+                    return None
+                chosen.append(picked)
+        except (NotACut, RecursionError) as error:
+            self.failures.append(f"stage {cut.stage} -> {stage}: not a cut ({error or 'too deep'})")
+            return None
+        return self._next_cut(builder, cut, stage, chosen)
+
+    def _next_cut(self, builder: ConeBuilder, cut: Cut, stage: int, chosen: list[Candidate]) -> Optional[Cut]:
+        """The facts of stage ``stage``: its proved digits and the other bits of their nodes."""
+        facts: dict[int, list] = {}
+        nodes: dict[int, Node] = {}
+        for j, candidate in enumerate(chosen):
+            node = candidate.node
+            bits = facts.setdefault(node.id, [None] * node.width)
+            nodes[node.id] = node
+            for b in range(4):
+                if bits[candidate.low + b] is not None:
+                    self.failures.append(f"stage {stage}: two digits proposed in the same bits "
+                                         f"of {candidate.describe()}")
+                    return None
+                bits[candidate.low + b] = DigitBit(j, b, candidate.complemented)
+        for node_id, bits in facts.items():
+            node = nodes[node_id]
+            for i, known in enumerate(bits):
+                if known is not None:
+                    continue
+                fact = self.mining.bit_fact(node, i)
+                if fact is None:
+                    continue
+                if isinstance(fact, ConstBit):
+                    expected = self.cone.const(fact.value, 1)
+                else:
+                    expected = input_bit_leaf(self.cone, self.width, cut.stage, fact.index)
+                try:
+                    rebuilt = builder.slice(node, i, i)
+                except (NotACut, RecursionError):
+                    continue
+                where = f"stage {cut.stage} -> {stage}, bit {i} of {node!r}"
+                if self._check(rebuilt, expected, cut, where).status == outcomes.PROVED:
+                    bits[i] = fact
+        slots = {node_id: k for k, node_id in enumerate(facts)}
+        return Cut(stage=stage, digits=digit_count(stage), facts=facts, slots=slots)
+
+    def _final(self, cut: Cut) -> Verdict:
+        """Outputs from the last proved stage: each equals the reference digit (zero above)."""
+        problem, width, cone = self.problem, self.width, self.cone
+        total = digit_count(width)
+        shown = len(problem.digits)
+        try:
+            builder = self._builder(cut)
+            reference = self._reference(cut.stage, width)
+            bound = self._value_bound(cut) if problem.max_input is not None else None
+            for i in range(max(shown, total)):
+                expected = reference[i] if i < total else cone.zero(4)
+                if i < shown:
+                    rebuilt = builder.slice(problem.digits[i], 3, 0)
+                    where = f"stage {cut.stage} -> outputs, digit {i} ({self._source(i)})"
+                else:
+                    rebuilt, expected = expected, cone.zero(4)
+                    where = f"stage {cut.stage} -> outputs, digit {i} (not shown by the design)"
+                outcome = self._check(rebuilt, expected, cut, where, extra=bound)
+                if outcome.status != outcomes.PROVED:
+                    self._failed(outcome, cut, where)
+                    return self._unknown(self._stuck_reason(cut, f"the step to the outputs failed "
+                                                                 f"at {where}"))
+        except (NotACut, RecursionError) as error:
+            return self._unknown(self._stuck_reason(
+                cut, f"the outputs are not cut by stage {cut.stage} ({error or 'too deep'})"))
+        self.proved_stage = width
+        self._report(width)
+        scope = (f"every input up to {problem.max_input}" if problem.max_input is not None
+                 else f"every {width}-bit input")
+        return Verdict(PROVED, self.engine.name,
+                       covered=f"{scope}: stage chain 0 -> {width} and the outputs, "
+                               f"{self.solver.posed} obligations")
+
+    # pieces ------------------------------------------------------------------------------------
+    def _builder(self, cut: Cut) -> ConeBuilder:
+        limit = 4000 + 400 * digit_count(self.width)
+        return ConeBuilder(self.cone, self.problem.x, self.width, cut, owners=self.owners,
+                           zero_test=self._zero_test, limit=limit)
+
+    def _zero_test(self, builder: ConeBuilder, node: Node) -> bool:
+        """Is ``node`` zero for every input?  Proposed by simulation, proved from the cut.
+
+        Digits above a stage's top digit are zero but match no reference digit; without this
+        the cone of a new top digit would run back through every earlier stage.  The proof
+        uses only proved facts of strictly smaller cones, so it is well founded.
+        """
+        if node.id in self.zeros:
+            return True
+        planes = self.mining.planes.get(node.id)
+        if planes is None or any(planes) or any(self.mining.unknown.get(node.id, ())):
+            return False
+        stage = builder.cut.stage
+        if self._zero_tried.get(node.id) == stage:
+            return False
+        self._zero_tried[node.id] = stage        # also guards against re-entering this proof
+        try:
+            whole = builder.build_plain(node)
+        except NotACut:
+            return False
+        outcome = self._check(whole, self.cone.zero(node.width), builder.cut,
+                              f"stage {stage}: {node!r} is zero")
+        if outcome.status == outcomes.PROVED:
+            self.zeros.add(node.id)
+            return True
+        return False
+
+    def _reference(self, start: int, stop: int) -> list[Node]:
+        """R^(stop - start) of the stage-``start`` digit leaves, as ``digit_count(stop)`` nodes."""
+        key = (start, stop)
+        found = self._references.get(key)
+        if found is None:
+            cone = self.cone
+            digits = [digit_leaf(cone, j) for j in range(digit_count(start))]
+            for step in range(start, stop):
+                count = digit_count(step + 1)
+                padded = digits + [cone.zero(4)] * (count - len(digits))
+                bit = input_bit_leaf(cone, self.width, start, self.width - step - 1)
+                digits = step_nodes(cone, padded, bit)[:count]
+            found = self._references[key] = digits
+        return found
+
+    def _assumptions(self, nodes: list[Node], cut: Cut) -> Node:
+        """Valid digits (each <= 9) and each stage's range, for the digit leaves ``nodes`` use."""
+        cone = self.cone
+        used: dict[int, set[int]] = {}            # distance back -> digit indices
+        for leaf in leaves(nodes):
+            name = leaf.params[0]
+            if leaf.width != 4:
+                continue
+            if name.startswith("d") and name[1:].isdigit():
+                used.setdefault(0, set()).add(int(name[1:]))
+            elif name.startswith("e") and "_" in name:
+                distance, digit = name[1:].split("_")
+                used.setdefault(int(distance), set()).add(int(digit))
+        condition = cone.const(1, 1)
+        nine = cone.const(9, 4)
+        for distance, digits in sorted(used.items()):
+            stage = cut.stage - distance
+            for j in sorted(digits):
+                condition = cone.and_(condition, cone.ule(digit_leaf(cone, j, distance), nine))
+            top = digit_count(stage) - 1
+            if top in digits:
+                condition = cone.and_(condition, self._top_pair(stage, distance))
+        return condition
+
+    def _top_pair(self, stage: int, distance: int) -> Node:
+        """The top two digits of stage ``stage`` read as a number are at most its bound."""
+        cone = self.cone
+        top = digit_count(stage) - 1
+        bound = top_pair_bound(stage)
+        if top == 0:
+            return cone.ule(digit_leaf(cone, 0, distance), cone.const(bound, 4))
+        ten = cone.const(10, 8)
+        value = cone.add(cone.mul(cone.zext(digit_leaf(cone, top, distance), 8), ten),
+                         cone.zext(digit_leaf(cone, top - 1, distance), 8))
+        return cone.ule(value, cone.const(bound, 8))
+
+    def _value_bound(self, cut: Cut) -> Node:
+        """``x <= max_input`` in terms of the stage digits and the input bits still to come."""
+        cone, width = self.cone, self.width
+        wide = width + 4
+        value = cone.zero(wide)
+        for j in range(cut.digits):
+            term = cone.mul(cone.zext(digit_leaf(cone, j), wide), cone.const(10 ** j, wide))
+            value = cone.add(value, term)
+        rest = width - cut.stage
+        if rest:
+            value = cone.shl(value, cone.const(rest, wide))
+            low = cone.concat(*[input_bit_leaf(cone, width, cut.stage, width - cut.stage - 1 - o)
+                                for o in range(rest)])
+            value = cone.or_(value, cone.zext(low, wide))
+        return cone.ule(value, cone.const(self.problem.max_input, wide))
+
+    def _check(self, rebuilt: Node, expected: Node, cut: Cut, where: str,
+               extra: Optional[Node] = None) -> Outcome:
+        cone = self.cone
+        assume = self._assumptions([rebuilt, expected], cut)
+        if extra is not None:
+            assume = cone.and_(assume, extra)
+        bad = cone.and_(assume, cone.ne(rebuilt, expected))
+        timeout = self.engine.obligation_seconds
+        left = self.budget.remaining()
+        if left is not None:
+            timeout = min(timeout, max(left, 0.001))
+        return self.solver.check(bad, where, timeout)
+
+    def _failed(self, outcome: Outcome, cut: Cut, where: str) -> None:
+        """Record a failed obligation; raise _Disproved when its state replays as a real bug."""
+        if outcome.status == outcomes.UNDECIDED:
+            self.failures.append(f"{where}: the solver gave up ({outcome.reason})")
+            return
+        found = confirm(self.problem, outcome.values, cut.stage, cut.digits)
+        if found is not None:
+            raise _Disproved(found, where)
+        self.failures.append(f"{where}: fails on a state that no input reaches or that the "
+                             f"design corrects later")
+
+    def _source(self, i: int) -> str:
+        sources = getattr(self.problem, "digit_sources", None) or []
+        return sources[i] if i < len(sources) else f"output digit {i}"
+
+    def _stuck_reason(self, cut: Cut, what: str) -> str:
+        reason = f"stages 0 to {cut.stage} of {self.width} proved; {what}"
+        if self.failures:
+            reason += "; last problem: " + self.failures[-1]
+        if self.problem.max_input is not None:
+            reason += ("; note: stages are proved for every input, only the step to the "
+                       "outputs is restricted to x <= max_input")
+        if self.mining is not None and not any(self.mining.matched(s)
+                                               for s in range(4, self.width + 1)):
+            reason += ("; no shift-and-correct stages were found in the design (a division by "
+                       "ten design needs another engine)")
+        return reason
+
+    def _unknown(self, reason: str) -> Verdict:
+        covered = (f"stages 0 to {self.proved_stage} of {self.width} proved for every input"
+                   if self.proved_stage else "nothing proved")
+        return Verdict(UNKNOWN, self.engine.name, covered=covered, reason=reason)
+
+    def _report(self, stage: int) -> None:
+        if self.engine.progress is not None:
+            self.engine.progress(stage, self.width)
+
+    def stats(self) -> dict:
+        mining = self.mining
+        matched = sum(mining.matched(s) for s in range(self.width + 1)) if mining else 0
+        return {
+            "stages_matched": matched,
+            "stages_total": self.width + 1,
+            "stages_proved": self.proved_stage,
+            "obligations": self.solver.posed,
+            "distinct_obligations": self.solver.solved,
+            "slowest_obligation_seconds": round(self.solver.slowest, 4),
+            "slowest_obligation": self.solver.slowest_description,
+            "mining_seconds": round(self.mining_seconds, 3),
+            "lanes": mining.lanes if mining else 0,
+        }

@@ -1,0 +1,188 @@
+"""Mining: proposing, by simulation, which design signals hold the digits of each stage.
+
+The model and the reference (:func:`reference.step_planes`) run on the same lanes; a 4-bit
+slice of a design node whose value equals reference digit ``j`` of stage ``s`` on every lane
+is a *candidate* for that digit.  Candidates only propose; the solver decides.
+
+Where to look, in order (tier 0 first): 4-bit slices of the model's named signals (nets,
+variables, per-iteration probes, instance ports), then every 4..8-bit node in the cone of
+the outputs, then the complements of those nodes.  Stimuli: random inputs, inputs whose top
+``k`` bits are all ones (every stage then sees its largest prefix) and inputs whose prefixes
+sit just under and over powers of ten, so that sparse top digits still get a signature.
+"""
+from __future__ import annotations
+
+import random
+from dataclasses import dataclass, field
+
+from ...model.node import Node, Op, mask, topological
+from ...model.simulate import Simulator, pack
+from .cuts import ConstBit, Fact, InputBit
+from .reference import digit_count, step_planes
+
+_NARROW = range(4, 9)          # widths of the unnamed nodes searched (digit-sized cells)
+_KEEP = 12                     # candidates kept per digit of a stage
+
+
+@dataclass(frozen=True)
+class Candidate:
+    """A 4-bit slice ``node[low+3:low]`` proposed for one digit of one stage."""
+
+    node: Node
+    low: int
+    name: str
+    tier: int                  # 0 named signal, 1 unnamed node, 2 complement of an unnamed node
+    complemented: bool = False
+
+    def describe(self) -> str:
+        return f"{self.name}[{self.low + 3}:{self.low}]"
+
+
+@dataclass
+class Mining:
+    """What simulation proposed: digit candidates per stage and bit facts per node."""
+
+    width: int
+    lanes: int
+    inputs: list[int]
+    candidates: list[list[list[Candidate]]]       # [stage][digit] -> candidates, best first
+    planes: dict[int, list[int]] = field(default_factory=dict)    # node id -> value planes
+    unknown: dict[int, list[int]] = field(default_factory=dict)   # node id -> unknown planes
+    input_planes: dict[int, int] = field(default_factory=dict)    # x bit plane -> bit index
+
+    def matched(self, stage: int) -> bool:
+        """Every digit that can be non-zero at ``stage`` has at least one candidate."""
+        return all(self.candidates[stage][j] for j in range(digit_count(stage)))
+
+    def bit_fact(self, node: Node, bit: int) -> Fact:
+        """What bit ``bit`` of ``node`` looked like on every lane: a constant, an input bit, or None."""
+        planes = self.planes.get(node.id)
+        if planes is None or self.unknown.get(node.id, [0] * node.width)[bit]:
+            return None
+        plane = planes[bit]
+        if plane == 0:
+            return ConstBit(0)
+        if plane == mask(self.lanes):
+            return ConstBit(1)
+        index = self.input_planes.get(plane)
+        return None if index is None else InputBit(index)
+
+
+def stimuli(width: int, seed: int = 2026, random_count: int = 64, boundary_count: int = 128) -> list[int]:
+    """Input values for mining (see the module docstring); deterministic for a seed."""
+    rng = random.Random(seed)
+    top = mask(width)
+    values = [0, top]
+    values += [rng.getrandbits(width) for _ in range(random_count)]
+    # Top k bits ones: stage k sees 2**k - 1, its largest prefix.
+    for k in range(1, width + 1):
+        low = width - k
+        values.append((mask(k) << low) | (rng.getrandbits(low) if low else 0))
+    # Prefixes just under and over powers of ten, at random stages.
+    for _ in range(boundary_count):
+        stage = rng.randint(1, width)
+        count = digit_count(stage)
+        power = 10 ** (count - 1)
+        prefix = rng.choice([power - 1, power, power + 1, 2 * power - 1, 5 * power - 1,
+                             5 * power, mask(stage), mask(stage) - 1])
+        prefix = max(0, min(prefix, mask(stage)))
+        low = width - stage
+        values.append((prefix << low) | (rng.getrandbits(low) if low else 0))
+    return values
+
+
+def reference_planes(x_planes: list[int], width: int, lanes: int) -> list[list[tuple]]:
+    """Reference digits of every stage 0..W as 4-tuples of planes (digit 0 first)."""
+    full = mask(lanes)
+    stages: list[list[tuple]] = [[]]
+    digits: list[tuple] = []
+    zero = (0, 0, 0, 0)
+    for s in range(width):
+        count = digit_count(s + 1)
+        padded = digits + [zero] * (count - len(digits))
+        digits = step_planes(padded, x_planes[width - s - 1], full)[:count]
+        stages.append(digits)
+    return stages
+
+
+def _named_roots(problem) -> list[tuple[str, Node]]:
+    roots = []
+    seen = set()
+    for name, signal in problem.model.signals.items():
+        node = signal.node
+        if node.width >= 4 and node.op != Op.CONST and (name, node.id) not in seen:
+            seen.add((name, node.id))
+            roots.append((name, node))
+    return roots
+
+
+def mine(problem, lanes_seed: int = 2026) -> Mining:
+    """Simulate the model on the stimuli and collect digit candidates for every stage."""
+    width = problem.width
+    values = stimuli(width, lanes_seed)
+    lanes = len(values)
+    named = _named_roots(problem)
+    named_ids = {node.id for _, node in named}
+    cone = topological(problem.digits)
+    unnamed = [n for n in cone if n.width in _NARROW and n.op not in Op.LEAVES
+               and n.op != Op.CONST and n.id not in named_ids]
+    roots = [node for _, node in named] + unnamed
+    simulator = Simulator(roots)
+    given = {}
+    for leaf in simulator.leaves:
+        if leaf is problem.x:
+            given[leaf.id] = pack(values, width)
+        elif leaf.op != Op.FREE:
+            given[leaf.id] = [0] * leaf.width      # other inputs: a proposal needs only one choice
+    results = simulator.run(lanes, given)
+    planes = {}
+    unknown = {}
+    for node, result in zip(roots, results):
+        planes[node.id] = result.value
+        unknown[node.id] = result.unknown
+    x_planes = pack(values, width)
+    reference = reference_planes(x_planes, width, lanes)
+
+    wanted: dict[tuple, list[tuple[int, int]]] = {}
+    for s, digits in enumerate(reference):
+        for j, key in enumerate(digits):
+            wanted.setdefault(key, []).append((s, j))
+    candidates = [[[] for _ in digits] for digits in reference]
+    full = mask(lanes)
+
+    def offer(node: Node, name: str, tier: int, complemented: bool = False) -> None:
+        value = planes[node.id]
+        if complemented:
+            value = [~p & full for p in value]
+        blind = unknown[node.id]
+        for low in range(node.width - 3):
+            key = tuple(value[low:low + 4])
+            hits = wanted.get(key)
+            if hits is None or any(blind[low:low + 4]):
+                continue
+            for s, j in hits:
+                candidates[s][j].append(Candidate(node, low, name, tier, complemented))
+
+    for name, node in named:
+        offer(node, name, 0)
+    for node in unnamed:
+        offer(node, f"n{node.id}", 1)
+    for node in unnamed:
+        offer(node, f"~n{node.id}", 2, complemented=True)
+    for digits in candidates:
+        _rank(digits)
+    input_planes = {plane: k for k, plane in enumerate(x_planes)}
+    return Mining(width=width, lanes=lanes, inputs=values, candidates=candidates, planes=planes,
+                  unknown=unknown, input_planes=input_planes)
+
+
+def _rank(digits: list[list[Candidate]]) -> None:
+    """Order each digit's candidates: named first, then nodes holding more digits of the
+    stage (the digits of one stage usually sit in one register), then later nodes."""
+    coverage: dict[int, int] = {}
+    for options in digits:
+        for node_id in {c.node.id for c in options}:
+            coverage[node_id] = coverage.get(node_id, 0) + 1
+    for options in digits:
+        options.sort(key=lambda c: (c.tier, -coverage[c.node.id], -c.node.id, c.low))
+        del options[_KEEP:]

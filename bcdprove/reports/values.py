@@ -40,7 +40,8 @@ def vector_table(model, results: Sequence) -> str:
     for index, result in enumerate(results, start=1):
         for direction, ports in (("in", result.inputs), ("out", result.outputs)):
             for name, v in ports.items():
-                nib = nibbles(v.value, v.unknown, v.width) if v.width % 4 == 0 and v.width > 4 else ""
+                as_digits = direction == "out" and v.width % 4 == 0 and v.width > 4
+                nib = nibbles(v.value, v.unknown, v.width) if as_digits else ""
                 rows.append((str(index), name, direction, str(v.width), decimal(v.value, v.unknown),
                              hexadecimal(v.value, v.unknown, v.width), nib))
     widths = [max(len(r[c]) for r in rows) for c in range(len(rows[0]))]

@@ -1,0 +1,4 @@
+"""``python -m bcdprove`` runs the command line."""
+from .cli import main
+
+main()

@@ -652,6 +652,19 @@ class ExtendedParser(_base.VerilogParser):
         p[0] = p[1]
         p.set_lineno(0, p.lineno(1))
 
+    def p_function_item_integer_input(self, p):
+        """function_item : INPUT INTEGER declnamelist SEMICOLON
+        | INPUT INT declnamelist SEMICOLON
+        """
+        lineno = p.lineno(1)
+        inputs = []
+        for name, dimensions in p[3]:
+            if dimensions is not None:
+                self._problem(f"function input {name!r} cannot be an array", lineno)
+            inputs.append(vast.Input(name, _word(lineno, 31), True, lineno=lineno))
+        p[0] = vast.Decl(tuple(inputs), lineno=lineno)
+        p.set_lineno(0, lineno)
+
     def p_function_body(self, p):
         'function_body : function_statements'
         statements = p[1]

@@ -5,12 +5,13 @@ every other number names one gate.  The builder folds constants, shares structur
 gates and applies a few identities (``x & ~x == 0`` ...), each of which holds for every
 value of its inputs, so a folded netlist computes exactly the function of the unfolded one.
 
-:meth:`BitNetlist.compile` turns the gates that some outputs need into one straight-line
-Python function over local variables (exec'd once), with the locals reused as soon as a
-value is dead so that memory stays bounded by the widest live cut, not the gate count.
+:meth:`BitNetlist.compile` schedules the gates that some outputs need into a
+:class:`Program` over reusable registers, interpreted at first and turned into one
+straight-line Python function (exec'd once) when it is called often.
 """
 from __future__ import annotations
 
+import operator
 from typing import Callable, Sequence
 
 FALSE = 0
@@ -227,18 +228,38 @@ class BitNetlist:
                         stack.append(third[signal])
         return [s for s in range(2, len(kinds)) if mark[s]]
 
-    def compile(self, outputs: Sequence[int], name: str = "cone") -> Callable:
-        """A function ``f(M, P, U) -> list`` of the planes of ``outputs``, in order.
+    def compile(self, outputs: Sequence[int], name: str = "cone") -> "Program":
+        """A :class:`Program` computing the planes of ``outputs``, in order."""
+        return Program(self, outputs, name)
 
-        ``M`` is the all-lanes mask, ``P[k][i]`` value plane ``i`` of leaf ``k`` and
-        ``U[k][i]`` its unknown plane (only read by ternary programs).  Input planes must
-        have no bits above the lanes; constant outputs come back as 0 or ``M``.
-        """
-        order = self._needed(outputs)
-        position = {signal: index for index, signal in enumerate(order)}
-        kinds, first, second, third = self.kinds, self.first, self.second, self.third
-        # Last use of every gate; outputs stay alive to the end.
-        last = {}
+
+class Program:
+    """The gates some outputs need, scheduled once; call it as ``program(M, P, U)``.
+
+    ``M`` is the all-lanes mask, ``P[k][i]`` value plane ``i`` of leaf ``k`` and ``U[k][i]``
+    its unknown plane (read by ternary programs only).  Input planes must have no bits
+    above the lanes.  Returns the output planes as a list; constants come back as 0 or M.
+
+    Values live in numbered registers (0 holds the zero plane, 1 the mask) that are reused
+    as soon as a value is dead, so memory follows the widest live cut, not the gate count.
+    The first calls interpret the schedule, which costs about a tenth of a microsecond
+    per operation on top of the big-int work; a program called often is then turned into
+    straight-line Python, whose one-off compile costs some 30 microseconds per gate.
+    """
+
+    #: Calls interpreted before a program is compiled to Python source.
+    COMPILE_AFTER = 24
+    #: Larger programs are never compiled: the compile would outweigh the savings.
+    COMPILE_LIMIT = 200_000
+
+    def __init__(self, net: BitNetlist, outputs: Sequence[int], name: str):
+        order = net._needed(outputs)
+        kinds, first, second, third = net.kinds, net.first, net.second, net.third
+        # Loads first: they only name planes that exist anyway, so holding them costs nothing.
+        order = ([s for s in order if kinds[s] <= _LOAD_UNKNOWN]
+                 + [s for s in order if kinds[s] > _LOAD_UNKNOWN])
+        size = len(kinds)
+        last = [-1] * size          # position of the last reader of each signal
         for index, signal in enumerate(order):
             kind = kinds[signal]
             if kind >= _NOT:
@@ -247,46 +268,105 @@ class BitNetlist:
                     last[second[signal]] = index
                     if kind == _MUX:
                         last[third[signal]] = index
-        end = len(order)
         for o in outputs:
-            last[o] = end
-        dying: list[list[int]] = [[] for _ in range(end + 1)]
-        for signal, index in last.items():
-            if signal > TRUE:
-                dying[index].append(signal)
-        slot: dict[int, str] = {FALSE: "0", TRUE: "M"}
-        free: list[str] = []
-        count = 0
-        lines = [f"def {name}(M, P, U):"]
+            last[o] = len(order)
+        register = [0] * size
+        register[TRUE] = 1
+        free: list[int] = []
+        count = 2
+        self.loads: list[tuple[int, bool, int, int]] = []      # (register, unknown?, leaf, bit)
+        self.steps: list[tuple[int, int, int, int, int]] = []  # (kind, register, a, b, c)
         for index, signal in enumerate(order):
-            kind, a, b, c = kinds[signal], first[signal], second[signal], third[signal]
-            if kind == _LOAD:
-                expression = f"P[{a}][{b}]"
-            elif kind == _LOAD_UNKNOWN:
-                expression = f"U[{a}][{b}]"
-            elif kind == _NOT:
-                expression = f"{slot[a]} ^ M"
-            elif kind == _AND:
-                expression = f"{slot[a]} & {slot[b]}"
-            elif kind == _OR:
-                expression = f"{slot[a]} | {slot[b]}"
-            elif kind == _XOR:
-                expression = f"{slot[a]} ^ {slot[b]}"
-            else:
-                e = slot[c]
-                expression = f"{e} ^ ({slot[a]} & ({slot[b]} ^ {e}))"
-            # Arguments read for the last time give their local back before the store.
-            for dead in dying[index]:
-                free.append(slot[dead])
-            if free:
-                target = free.pop()
-            else:
-                target = f"r{count}"
+            kind = kinds[signal]
+            if kind <= _LOAD_UNKNOWN:
+                target = free.pop() if free else count
+                if target == count:
+                    count += 1
+                register[signal] = target
+                self.loads.append((target, kind == _LOAD_UNKNOWN, first[signal], second[signal]))
+                continue
+            a = first[signal]
+            b = second[signal] if kind >= _AND else FALSE
+            c = third[signal] if kind == _MUX else FALSE
+            ra, rb, rc = register[a], register[b], register[c]
+            # Arguments read for the last time give their register back before the store.
+            for arg in {a, b, c}:
+                if arg > TRUE and last[arg] == index:
+                    free.append(register[arg])
+            target = free.pop() if free else count
+            if target == count:
                 count += 1
-            slot[signal] = target
-            lines.append(f"    {target} = {expression}")
-        del position
-        lines.append("    return [" + ", ".join(slot[o] for o in outputs) + "]")
+            register[signal] = target
+            self.steps.append((kind, target, ra, rb, rc))
+        self.registers = count
+        self.outputs = [register[o] for o in outputs]
+        self.name = name
+        self.calls = 0
+        self._compiled: Callable | None = None
+        self._interpreted = self._interpreter_steps()
+
+    def __len__(self) -> int:
+        return len(self.loads) + len(self.steps)
+
+    def __call__(self, M: int, P: Sequence[Sequence[int]], U: Sequence[Sequence[int]]) -> list[int]:
+        if self._compiled is None:
+            self.calls += 1
+            if self.calls > self.COMPILE_AFTER and len(self) <= self.COMPILE_LIMIT:
+                self._compiled = self._compile()
+            else:
+                return self._interpret(M, P, U)
+        return self._compiled(M, P, U)
+
+    def _interpreter_steps(self) -> list[tuple]:
+        """The schedule as two-operand big-int operations; a mux uses scratch register."""
+        xor, and_, or_ = operator.xor, operator.and_, operator.or_
+        scratch = self.registers
+        out = []
+        for kind, target, a, b, c in self.steps:
+            if kind == _NOT:
+                out.append((xor, target, a, 1))
+            elif kind == _AND:
+                out.append((and_, target, a, b))
+            elif kind == _OR:
+                out.append((or_, target, a, b))
+            elif kind == _XOR:
+                out.append((xor, target, a, b))
+            else:
+                # else ^ (condition & (then ^ else)); every read precedes the store.
+                out.append((xor, scratch, b, c))
+                out.append((and_, scratch, a, scratch))
+                out.append((xor, target, c, scratch))
+        return out
+
+    def _interpret(self, M: int, P, U) -> list[int]:
+        registers = [0] * (self.registers + 1)
+        registers[1] = M
+        for target, unknown, leaf, bit in self.loads:
+            registers[target] = (U if unknown else P)[leaf][bit]
+        for operation, target, a, b in self._interpreted:
+            registers[target] = operation(registers[a], registers[b])
+        return [registers[r] for r in self.outputs]
+
+    def _compile(self) -> Callable:
+        def name(r: int) -> str:
+            return "0" if r == 0 else "M" if r == 1 else f"r{r}"
+
+        lines = [f"def {self.name}(M, P, U):"]
+        for target, unknown, leaf, bit in self.loads:
+            lines.append(f"    r{target} = {'U' if unknown else 'P'}[{leaf}][{bit}]")
+        for kind, target, a, b, c in self.steps:
+            if kind == _NOT:
+                expression = f"{name(a)} ^ M"
+            elif kind == _AND:
+                expression = f"{name(a)} & {name(b)}"
+            elif kind == _OR:
+                expression = f"{name(a)} | {name(b)}"
+            elif kind == _XOR:
+                expression = f"{name(a)} ^ {name(b)}"
+            else:
+                expression = f"{name(c)} ^ ({name(a)} & ({name(b)} ^ {name(c)}))"
+            lines.append(f"    r{target} = {expression}")
+        lines.append("    return [" + ", ".join(name(r) for r in self.outputs) + "]")
         namespace: dict = {}
-        exec(compile("\n".join(lines), f"<bcdprove {name}>", "exec"), namespace)
-        return namespace[name]
+        exec(compile("\n".join(lines), f"<bcdprove {self.name}>", "exec"), namespace)
+        return namespace[self.name]

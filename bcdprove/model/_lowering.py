@@ -11,15 +11,18 @@ from __future__ import annotations
 from typing import Sequence
 
 from ._bitnet import FALSE, TRUE, BitNetlist
-from .node import Node, Op, topological
+from .node import Node, Op
 
 Bits = list[int]
 
 
-def lower(net: BitNetlist, roots: Sequence[Node], leaf_index: dict[int, int]) -> dict[int, Bits]:
-    """Bits of every node in the cone of ``roots``; leaf ``n`` loads from ``leaf_index[n.id]``."""
+def lower(net: BitNetlist, order: Sequence[Node], leaf_index: dict[int, int]) -> dict[int, Bits]:
+    """Bits of every node of ``order`` (topological: each node after its arguments).
+
+    Leaf ``n`` loads its planes from leaf number ``leaf_index[n.id]``.
+    """
     bits: dict[int, Bits] = {}
-    for node in topological(roots):
+    for node in order:
         if node.op == Op.CONST:
             value = node.value
             bits[node.id] = [TRUE if value >> i & 1 else FALSE for i in range(node.width)]

@@ -10,6 +10,7 @@ import random
 import pytest
 from hypothesis import given, settings, strategies as st
 
+from bcdprove.model._bitnet import Program
 from bcdprove.model.node import Graph, evaluate
 from bcdprove.model.simulate import Planes, Simulator, counting_planes, pack, simulate, unpack
 from tests.support.converters import (buggy_double_dabble, digit_count, division_by_ten,
@@ -72,8 +73,11 @@ def test_lanes_equal_scalar_evaluation(seed, operations, lanes):
     _check_against_evaluate(dag, rng, lanes)
 
 
-@pytest.mark.parametrize("seed", range(40))
-def test_lanes_equal_scalar_evaluation_narrow_words(seed):
+@pytest.mark.parametrize("compile_after", [0, 10**9], ids=["compiled", "interpreted"])
+@pytest.mark.parametrize("seed", range(25))
+def test_lanes_equal_scalar_evaluation_narrow_words(seed, compile_after, monkeypatch):
+    # Both ways of running a schedule: straight-line Python and the interpreter.
+    monkeypatch.setattr(Program, "COMPILE_AFTER", compile_after)
     # Narrow words make carries, zero divisors and out-of-range shifts common.
     rng = random.Random(seed)
     dag = random_dag(rng, operations=20, max_width=9, free_leaves=1)

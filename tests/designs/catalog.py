@@ -131,14 +131,148 @@ def parse_bench_output(text: str, count: int) -> list[int | None]:
     rows = lines[header + 1:header + 1 + count]
     if len(rows) != count:
         raise AssertionError(f"bench printed {len(rows)} rows, expected {count}")
-    shown: list[int | None] = []
+    return [_packed(words, widths) for words in rows]
+
+
+def _clocked_ports(entry: Entry, bus: int) -> tuple[list[str], list[str]]:
+    """Declarations and port connections shared by the clocked benches."""
+    (data_input,) = entry.inputs
+    raw = entry.raw
+    declarations = [f"    reg [{bus - 1}:0] value;", "    reg clk;"]
+    connections = [f".{raw['clock']}(clk)", f".{data_input}(value[{entry.width - 1}:0])"]
+    if raw.get("reset"):
+        declarations.append("    reg reset_level;")
+        connections.append(f".{raw['reset']}(reset_level)")
+    if raw.get("start"):
+        declarations.append("    reg start;")
+        connections.append(f".{raw['start']}(start)")
+    if raw.get("done"):
+        connections.append(f".{raw['done']}()")
+    connections += [f".{port}({value})" for port, value in entry.ties.items()]
+    connections += [f".{port}()" for port in entry.outputs]
+    overrides = ", ".join(f".{k}({v})" for k, v in entry.parameters.items())
+    header = f"{entry.top} #({overrides})" if overrides else entry.top
+    declarations.append(f"    {header} dut ({', '.join(connections)});")
+    declarations.append("    initial clk = 1'b0;")
+    declarations.append("    always #5 clk = ~clk;")
+    return declarations, connections
+
+
+def _reset_lines(entry: Entry) -> list[str]:
+    raw = entry.raw
+    if not raw.get("reset"):
+        return ["        repeat (2) @(negedge clk);"]
+    active, inactive = ("1'b0", "1'b1") if raw.get("reset_active_low") else ("1'b1", "1'b0")
+    return [f"        reset_level = {active};",
+            "        repeat (2) @(negedge clk);",
+            f"        reset_level = {inactive};",
+            "        @(negedge clk);"]
+
+
+def _shown(entry: Entry) -> tuple[str, str, str, str]:
+    widths = " ".join("%0d" for _ in entry.outputs)
+    width_args = ", ".join(f"$bits(dut.{port})" for port in entry.outputs)
+    shown = " ".join("%h" for _ in entry.outputs)
+    shown_args = ", ".join(f"dut.{port}" for port in entry.outputs)
+    return widths, width_args, shown, shown_args
+
+
+def handshake_bench(entry: Entry, vector_file: Path, count: int) -> str:
+    """Bench for a start/done converter: one transaction per vector, in file order.
+
+    Reset is applied once at the beginning. Each transaction raises start for one rising edge
+    with the value on the input, then drives the complement of the value (the design must have
+    latched it), waits for done and prints the number of rising edges after the start edge
+    followed by the outputs in hex; then it leaves one idle clock before the next start. A
+    design that does not raise done within W + 8 edges prints ``timeout`` instead.
+    """
+    bus = entry.width + 8
+    declarations, _ = _clocked_ports(entry, bus)
+    done = f"dut.{entry.raw['done']}"
+    limit = entry.width + 8
+    widths, width_args, shown, shown_args = _shown(entry)
+    lines = ["module bcdprove_bench;",
+             f"    reg [{bus - 1}:0] stimulus [0:{count - 1}];",
+             "    integer i, edges;"] + declarations + [
+             "    initial begin",
+             f"        $readmemh(\"{vector_file}\", stimulus);",
+             "        start = 1'b0;",
+             "        value = 0;"] + _reset_lines(entry) + [
+             f"        $display(\"widths {widths}\", {width_args});",
+             f"        for (i = 0; i < {count}; i = i + 1) begin",
+             "            value = stimulus[i];",
+             "            start = 1'b1;",
+             "            @(negedge clk);",
+             "            start = 1'b0;",
+             "            value = ~stimulus[i];",
+             "            edges = 0;",
+             f"            while ({done} !== 1'b1 && edges < {limit}) begin",
+             "                @(negedge clk);",
+             "                edges = edges + 1;",
+             "            end",
+             f"            if ({done} === 1'b1)",
+             f"                $display(\"%0d {shown}\", edges, {shown_args});",
+             "            else",
+             "                $display(\"timeout\");",
+             "            @(negedge clk);",
+             "        end",
+             "        $finish;",
+             "    end",
+             "endmodule", ""]
+    return "\n".join(lines)
+
+
+def pipeline_bench(entry: Entry, vector_file: Path, count: int) -> str:
+    """Bench for a pipelined converter: a new vector before every rising edge, outputs after each.
+
+    After the last vector the input holds it. One line per rising edge (``count`` plus the
+    catalogued latency lines) with the outputs in hex; line ``n`` (from 0) is taken after edge
+    ``n + 1`` and so shows the vector ``n + 1 - latency`` of a correct design.
+    """
+    bus = entry.width + 8
+    declarations, _ = _clocked_ports(entry, bus)
+    latency = int(entry.raw["latency"])
+    widths, width_args, shown, shown_args = _shown(entry)
+    lines = ["module bcdprove_bench;",
+             f"    reg [{bus - 1}:0] stimulus [0:{count - 1}];",
+             "    integer i;"] + declarations + [
+             "    initial begin",
+             f"        $readmemh(\"{vector_file}\", stimulus);",
+             "        value = 0;"] + _reset_lines(entry) + [
+             f"        $display(\"widths {widths}\", {width_args});",
+             f"        for (i = 0; i < {count + latency}; i = i + 1) begin",
+             f"            value = (i < {count}) ? stimulus[i] : stimulus[{count - 1}];",
+             "            @(negedge clk);",
+             f"            $display(\"{shown}\", {shown_args});",
+             "        end",
+             "        $finish;",
+             "    end",
+             "endmodule", ""]
+    return "\n".join(lines)
+
+
+def parse_handshake_output(text: str, count: int) -> list[tuple[int | None, int | None]]:
+    """(edges from start to done, packed display word) per transaction; None for timeout or x/z."""
+    lines = [line.split() for line in text.splitlines() if line.strip()]
+    header = next(i for i, words in enumerate(lines) if words and words[0] == "widths")
+    widths = [int(w) for w in lines[header][1:]]
+    rows = lines[header + 1:header + 1 + count]
+    if len(rows) != count:
+        raise AssertionError(f"bench printed {len(rows)} transactions, expected {count}")
+    results: list[tuple[int | None, int | None]] = []
     for words in rows:
-        packed, offset, unknown = 0, 0, False
-        for word, width in zip(words, widths):
-            if any(c in "xXzZ" for c in word):
-                unknown = True
-                break
-            packed |= int(word, 16) << offset
-            offset += width
-        shown.append(None if unknown else packed)
-    return shown
+        if words == ["timeout"]:
+            results.append((None, None))
+            continue
+        results.append((int(words[0]), _packed(words[1:], widths)))
+    return results
+
+
+def _packed(words: list[str], widths: list[int]) -> int | None:
+    packed, offset = 0, 0
+    for word, width in zip(words, widths):
+        if any(c in "xXzZ" for c in word):
+            return None
+        packed |= int(word, 16) << offset
+        offset += width
+    return packed

@@ -12,8 +12,9 @@ from pathlib import Path
 
 import pytest
 
-from tests.designs.catalog import (Entry, combinational_bench, expected_display, load_catalog,
-                                   parse_bench_output)
+from tests.designs.catalog import (Entry, combinational_bench, expected_display, handshake_bench,
+                                   load_catalog, parse_bench_output, parse_handshake_output,
+                                   pipeline_bench, reference_bcd)
 from tests.support.icarus import run_icarus
 
 # Up to this width every input is simulated; beyond it, corners plus seeded random values.
@@ -27,6 +28,8 @@ EXHAUSTIVE_BELOW_FAILURE = 1 << 16
 
 ENTRIES = load_catalog()
 COMBINATIONAL = [e for e in ENTRIES if not e.clocked]
+HANDSHAKE = [e for e in ENTRIES if e.clocked and e.raw["protocol"] == "handshake"]
+PIPELINE = [e for e in ENTRIES if e.clocked and e.raw["protocol"] == "pipeline"]
 
 
 def corner_inputs(width: int) -> set[int]:
@@ -63,13 +66,29 @@ def vectors_for(entry: Entry) -> list[int]:
     return sorted(v for v in chosen if 0 <= v <= top)
 
 
-def simulate(entry: Entry, vectors: list[int], tmp_path: Path) -> list[int | None]:
+def _run(entry: Entry, vectors: list[int], tmp_path: Path, make_bench) -> str:
     vector_file = tmp_path / "vectors.hex"
     vector_file.write_text("".join(f"{v:x}\n" for v in vectors))
-    bench = combinational_bench(entry, vector_file, len(vectors))
-    output = run_icarus([entry.path], "bcdprove_bench", extra_text=bench,
-                        include_dirs=entry.include_dirs)
-    return parse_bench_output(output, len(vectors))
+    bench = make_bench(entry, vector_file, len(vectors))
+    return run_icarus([entry.path], "bcdprove_bench", extra_text=bench,
+                      include_dirs=entry.include_dirs)
+
+
+def simulate(entry: Entry, vectors: list[int], tmp_path: Path) -> list[int | None]:
+    return parse_bench_output(_run(entry, vectors, tmp_path, combinational_bench), len(vectors))
+
+
+def run_transactions(entry: Entry, vectors: list[int], tmp_path: Path) -> list[tuple[int | None, int | None]]:
+    """(edges from start to done, display) per start/done transaction, in order, after one reset."""
+    return parse_handshake_output(_run(entry, vectors, tmp_path, handshake_bench), len(vectors))
+
+
+def run_stream(entry: Entry, vectors: list[int], tmp_path: Path) -> list[int | None]:
+    """Display a pipeline shows for each vector, aligned by the catalogued latency."""
+    latency = int(entry.raw["latency"])
+    rows = parse_bench_output(_run(entry, vectors, tmp_path, pipeline_bench), len(vectors) + latency)
+    # Row n is taken after edge n + 1 and shows vector n + 1 - latency.
+    return rows[latency - 1:latency - 1 + len(vectors)]
 
 
 def _params(entries: list[Entry]):
@@ -108,6 +127,62 @@ def test_catalogue_entries_are_well_formed():
         if entry.expected == "proved":
             assert entry.bug is None and entry.first_failing_input is None, entry.name
         else:
-            assert entry.bug and entry.first_failing_input is not None, entry.name
+            assert entry.bug, entry.name
+            assert entry.first_failing_input is not None or "failing_sequence" in entry.raw, entry.name
         first_line = entry.path.read_text().splitlines()[0]
         assert first_line.startswith("// ") and "Expected: " + entry.expected in first_line, entry.name
+
+
+def _clocked_vectors(entry: Entry) -> list[int]:
+    """Every input in increasing order: each conversion follows the one for the value below it."""
+    assert entry.width <= EXHAUSTIVE_WIDTH, "clocked entries are simulated exhaustively"
+    return list(range(1 << entry.width))
+
+
+@pytest.mark.parametrize("entry", _params(HANDSHAKE))
+def test_handshake_design_behaves_as_catalogued(entry: Entry, tmp_path: Path):
+    vectors = _clocked_vectors(entry)
+    results = run_transactions(entry, vectors, tmp_path)
+    wrong = [v for v, (_, shown) in zip(vectors, results) if shown != reference_bcd(v)]
+    if entry.expected == "proved":
+        assert wrong == [], f"{entry.name}: wrong digits for {wrong[:10]}"
+        edges = {edges for edges, _ in results}
+        assert edges == {int(entry.raw["latency"])}, f"{entry.name}: done after {sorted(edges)} edges"
+        return
+    assert wrong, f"{entry.name}: no transaction is wrong"
+    _check_clocked_failure(entry, wrong, tmp_path, lambda seq: [s for _, s in run_transactions(entry, seq, tmp_path)])
+
+
+@pytest.mark.parametrize("entry", _params(PIPELINE))
+def test_pipeline_design_behaves_as_catalogued(entry: Entry, tmp_path: Path):
+    # A seeded shuffle after the increasing sweep: consecutive inputs then differ in many bits.
+    vectors = _clocked_vectors(entry)
+    shuffled = list(vectors)
+    random.Random(f"{entry.name}-stream").shuffle(shuffled)
+    stream = vectors + shuffled
+    shown = run_stream(entry, stream, tmp_path)
+    wrong = [i for i, (v, s) in enumerate(zip(stream, shown)) if s != reference_bcd(v)]
+    if entry.expected == "proved":
+        assert wrong == [], f"{entry.name}: wrong digits at stream positions {wrong[:10]}"
+        return
+    assert wrong, f"{entry.name}: no stream position is wrong"
+    _check_clocked_failure(entry, [stream[i] for i in wrong], tmp_path, lambda seq: run_stream(entry, seq, tmp_path))
+
+
+def _check_clocked_failure(entry: Entry, wrong_inputs: list[int], tmp_path: Path, run_sequence) -> None:
+    """A buggy clocked design fails where catalogued: as a first transaction, or in its sequence."""
+    failure = entry.first_failing_input
+    if failure is not None:
+        # The increasing sweep starts every conversion afresh for these bugs, so its first wrong
+        # input is the smallest one that fails as the first conversion after reset.
+        assert min(wrong_inputs) == failure, f"{entry.name}: first wrong input {min(wrong_inputs)}"
+        (alone,) = run_sequence([failure])
+        assert alone != reference_bcd(failure), f"{entry.name}: {failure} alone simulates right"
+    sequence = entry.raw.get("failing_sequence")
+    if sequence is not None:
+        position = entry.raw["failing_position"]
+        shown = run_sequence(sequence)
+        assert shown[position] != reference_bcd(sequence[position]), f"{entry.name}: sequence simulates right"
+        for value, seen in zip(sequence[:position], shown[:position]):
+            assert seen == reference_bcd(value), f"{entry.name}: {value} already wrong earlier in the sequence"
+    assert failure is not None or sequence is not None, entry.name

@@ -31,19 +31,37 @@ _PARSER: Optional["_grammar.ExtendedParser"] = None
 def parse(pre: Preprocessed) -> vast.Source:
     """Parse ``pre.text`` into a ``pyverilog.vparser.ast.Source``.
 
-    Every node's ``lineno`` is a line of ``pre.text`` (map it with ``location``).  A syntax
+    Every node's ``lineno`` is a line of ``pre.text`` (map it with ``location``); each
+    ModuleDef's ``default_nettype`` is the one in force where it starts.  A syntax
     error, or a construct the reader rejects outright (``typedef``, ``struct``, ...), raises
     BcdproveError carrying the original file and line.
     """
     parser = _parser()
     try:
-        return parser.parse_text(pre.text)
+        source = parser.parse_text(pre.text)
     except _grammar.SyntaxProblem as problem:
         file, line = pre.origin(problem.line)
         kind = UnsupportedConstruct if problem.unsupported else BcdproveError
         raise kind(problem.message, file, line) from None
     except RecursionError:
         raise BcdproveError("syntax error: nesting too deep to parse", pre.origin(1)[0]) from None
+    _apply_default_nettype(source, pre)
+    return source
+
+
+def _apply_default_nettype(source: vast.Source, pre: Preprocessed) -> None:
+    """Set each ModuleDef's ``default_nettype`` to the last `default_nettype before it.
+
+    IEEE 1364-2005 clause 19.2: the directive applies to the modules that follow it, and
+    "wire" holds before any (pyverilog's lexer never sees the directives, they are gone).
+    """
+    for module in source.description.definitions:
+        if isinstance(module, vast.ModuleDef):
+            value = "wire"
+            for line, setting in pre.default_nettype:
+                if line <= module.lineno:
+                    value = setting
+            module.default_nettype = value
 
 
 def location(pre: Preprocessed, node: vast.Node) -> SourceLocation:

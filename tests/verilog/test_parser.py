@@ -675,3 +675,31 @@ def test_damaged_files_raise_only_bcdprove_errors(content):
         except BcdproveError as error:
             assert error.file is not None
             assert error.line is None or error.line >= 1
+
+
+def test_each_module_gets_the_default_nettype_in_force_before_it(tmp_path):
+    # 1364-2005 clause 19.2: `default_nettype applies to the modules after it.
+    path = tmp_path / "nets.v"
+    path.write_text("module a; endmodule\n`default_nettype none\nmodule b; endmodule\n"
+                    "`resetall\nmodule c; endmodule\n")
+    modules = parse(preprocess([str(path)])).description.definitions
+    assert [(m.name, m.default_nettype) for m in modules] == [
+        ("a", "wire"), ("b", "none"), ("c", "wire")]
+
+
+def test_endfunction_label():
+    function = _one(_module("module m(output [3:0] y);\n  function [3:0] f(input [3:0] a);\n"
+                            "    f = a;\n  endfunction : f\n  assign y = f(4'd3);\nendmodule"),
+                    vast.Function)
+    assert function.name == "f"
+    with pytest.raises(BcdproveError):
+        _module("module m;\n  function f(input a);\n    f = a;\n  endfunction : g\nendmodule")
+
+
+def test_function_body_of_several_statements_becomes_one_block():
+    # IEEE 1800 allows several statements in a function without begin ... end.
+    function = _one(_module("module m(output [3:0] y);\n  function [3:0] f(input [3:0] a);\n"
+                            "    f = a;\n    f = f + 1;\n  endfunction\n"
+                            "  assign y = f(4'd3);\nendmodule"), vast.Function)
+    body = function.statement[-1]
+    assert isinstance(body, vast.Block) and len(body.statements) == 2

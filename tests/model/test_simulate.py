@@ -11,7 +11,7 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 from bcdprove.model._bitnet import Program
-from bcdprove.model.node import Graph, evaluate
+from bcdprove.model.node import Graph, evaluate, leaves
 from bcdprove.model.simulate import Planes, Simulator, counting_planes, pack, simulate, unpack
 from tests.support.converters import (buggy_double_dabble, digit_count, division_by_ten,
                                       double_dabble)
@@ -112,24 +112,33 @@ def test_constant_roots_fill_every_lane():
 
 # three-valued soundness ----------------------------------------------------------------------
 
-def _check_ternary_sound(dag, rng, lanes, tries=6):
+def _check_ternary_sound(dag, rng, lanes, tries=6, mark_inputs=False):
+    """Known bits must equal evaluate() for every completion of the unknown leaf bits.
+
+    FREE leaves are left out of the run (all unknown); with ``mark_inputs`` some bits of
+    the given inputs are marked unknown too, and completions redraw exactly those bits.
+    """
     roots = dag.nodes
     simulator = Simulator(roots)
     inputs = [leaf for leaf in simulator.leaves if leaf.op != "free"]
     frees = [leaf for leaf in simulator.leaves if leaf.op == "free"]
     vectors = [{leaf.id: rng.getrandbits(leaf.width) for leaf in inputs} for _ in range(lanes)]
+    marks = [{leaf.id: rng.getrandbits(leaf.width) & rng.getrandbits(leaf.width) if mark_inputs
+              else 0 for leaf in inputs} for _ in range(lanes)]
     values = {leaf.id: pack([v[leaf.id] for v in vectors], leaf.width) for leaf in inputs}
-    results = simulator.run(lanes, values)
+    unknown = {leaf.id: pack([m[leaf.id] for m in marks], leaf.width) for leaf in inputs}
+    results = simulator.run(lanes, values, unknown)
+    reported = [(unpack(r.value, lanes), unpack(r.unknown, lanes)) for r in results]
     for _ in range(tries):
         for j, vector in enumerate(vectors):
-            chosen = dict(vector)
+            chosen = {leaf.id: vector[leaf.id] & ~marks[j][leaf.id]
+                      | rng.getrandbits(leaf.width) & marks[j][leaf.id] for leaf in inputs}
             chosen.update({leaf.id: rng.getrandbits(leaf.width) for leaf in frees})
             actual = evaluate(roots, chosen)
-            for root, planes, value in zip(roots, results, actual):
-                known = ~unpack(planes.unknown, lanes)[j] & ((1 << root.width) - 1)
-                reported = unpack(planes.value, lanes)[j]
-                assert reported & ~known == 0, "value bits under unknown must be 0"
-                assert value & known == reported, (root, j)
+            for root, (value_lanes, unknown_lanes), value in zip(roots, reported, actual):
+                known = ~unknown_lanes[j] & ((1 << root.width) - 1)
+                assert value_lanes[j] & ~known == 0, "value bits under unknown must be 0"
+                assert value & known == value_lanes[j], (root, j)
 
 
 @settings(max_examples=40, deadline=None)
@@ -139,6 +148,35 @@ def test_bits_reported_known_do_not_depend_on_unknown_leaves(seed, operations):
     dag = random_dag(rng, operations=operations, max_width=40, heavy_width=12, free_leaves=2,
                      leaf_count=2)
     _check_ternary_sound(dag, rng, lanes=8)
+
+
+@pytest.mark.parametrize("compile_after", [0, 10**9], ids=["compiled", "interpreted"])
+@pytest.mark.parametrize("seed", range(15))
+def test_bits_reported_known_do_not_depend_on_bits_marked_unknown(seed, compile_after,
+                                                                   monkeypatch):
+    monkeypatch.setattr(Program, "COMPILE_AFTER", compile_after)
+    rng = random.Random(1000 + seed)
+    dag = random_dag(rng, operations=15, max_width=10, free_leaves=1, leaf_count=3)
+    _check_ternary_sound(dag, rng, lanes=16, mark_inputs=True)
+
+
+@pytest.mark.parametrize("seed", range(10))
+def test_three_valued_runs_are_exact_away_from_unknown_leaves(seed):
+    # Soundness alone would allow "everything unknown": nodes that do not depend on the
+    # unknown leaf must come out fully known and right, though the ternary program runs.
+    rng = random.Random(seed)
+    dag = random_dag(rng, operations=15, max_width=10, free_leaves=1, leaf_count=2)
+    simulator = Simulator(dag.nodes)
+    vector = {leaf.id: rng.getrandbits(leaf.width) for leaf in dag.input_leaves}
+    given = {leaf.id: pack([vector[leaf.id]], leaf.width)
+             for leaf in simulator.leaves if leaf.op != "free"}
+    results = simulator.run(1, given)
+    unknown_leaf = dag.free_leaves[0]
+    for node, planes in zip(dag.nodes, results):
+        if any(leaf is unknown_leaf for leaf in leaves([node])):
+            continue
+        assert not any(planes.unknown), node
+        assert unpack(planes.value, 1) == evaluate([node], vector), node
 
 
 def test_known_zero_masks_an_unknown_and_ite_keeps_agreeing_arms():

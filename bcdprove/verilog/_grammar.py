@@ -716,6 +716,23 @@ class ExtendedParser(_base.VerilogParser):
         p[0] = FillConst(p[1], lineno=p.lineno(1))
         p.set_lineno(0, p.lineno(1))
 
+    # -- null statements, `default` without a colon --------------------------------------------
+    def p_event_statement(self, p):
+        'event_statement : senslist SEMICOLON'
+        if getattr(p[1], "implicit", False):
+            # A lone `;` is the null statement (clause 9.1), not a wait for an event.
+            p[0] = vast.Block((), lineno=p.lineno(2))
+            p.set_lineno(0, p.lineno(2))
+            return
+        p[0] = vast.EventStatement(p[1], lineno=p.lineno(1))
+        p.set_lineno(0, p.lineno(1))
+
+    def p_casecontent_statement_default_bare(self, p):
+        'casecontent_statement : DEFAULT basic_statement'
+        # Clause 9.5: the colon after `default` is optional.
+        p[0] = vast.Case(None, p[2], lineno=p.lineno(1))
+        p.set_lineno(0, p.lineno(1))
+
     # -- always without an event control ---------------------------------------------------
     def p_always(self, p):
         'always : ALWAYS senslist always_statement'

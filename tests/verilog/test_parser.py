@@ -179,6 +179,10 @@ ACCEPTED = {
         "module compound_on_selects(input [7:0] a, output reg [7:0] y);\n"
         "  always @* begin\n    y = a;\n    y[3:0] += 4'd3;\n    y[7] ^= 1'b1;\n"
         "    y <<= 1;\n  end\nendmodule",
+    "null_statements":
+        "module null_statements(input [1:0] a, output reg y);\n"
+        "  always @* begin\n    y = 0;\n    case (a)\n      2'd0: ;\n      default y = 1;\n"
+        "    endcase\n    if (a[0]) ; else y = ~y;\n  end\nendmodule",
 }
 
 
@@ -389,6 +393,18 @@ def test_variable_initial_value_is_not_a_continuous_assignment():
     nets = _module(ACCEPTED["net_declaration_assignment"]).items[0].list
     assert [type(n).__name__ for n in nets] == ["Wire", "Assign", "Wire", "Assign"]
     assert nets[3].left.var.name == "u" and nets[3].right.var.name == "t"
+
+
+def test_null_statement_is_an_empty_block_and_default_needs_no_colon():
+    # 1364-2005 clause 9.1 (a lone `;` does nothing) and 9.5 (`default` [:] statement).
+    block = _one(_module(ACCEPTED["null_statements"]), vast.Always).statement
+    case = _one(block, vast.CaseStatement)
+    empty, default = case.caselist
+    assert isinstance(empty.statement, vast.Block) and empty.statement.statements == ()
+    assert default.cond is None and isinstance(default.statement, vast.BlockingSubstitution)
+    branch = _one(block, vast.IfStatement)
+    assert isinstance(branch.true_statement, vast.Block) and branch.true_statement.statements == ()
+    assert not _all(block, vast.EventStatement)
 
 
 # -- constructs pyverilog already handled (kept working) ------------------------------------

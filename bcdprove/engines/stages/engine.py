@@ -17,11 +17,12 @@ from ...model.node import Graph, Node, Op, leaves
 from . import obligations as outcomes
 from .cuts import ConeBuilder, ConstBit, Cut, DigitBit, InputBit, NotACut, digit_leaf, input_bit_leaf
 from .lifting import confirm
-from .mining import Candidate, Mining, mine
+from .mining import Candidate, Mining, mine, screen
 from .obligations import ObligationSolver, Outcome
 from .reference import digit_count, step_nodes, top_pair_bound
 
 Progress = Callable[[int, int], None]
+_ZERO_SECONDS = 2.0      # a zero proof that is not quick is a cone that the cut does not bound
 
 
 class _Disproved(Exception):
@@ -95,6 +96,7 @@ class _Run:
         started = time.monotonic()
         self.mining = mine(problem, self.engine.seed)
         self.mining_seconds = time.monotonic() - started
+        self._replay_hints()
         cut = Cut.empty()
         self._report(0)
         while cut.stage < width:
@@ -108,6 +110,9 @@ class _Run:
                     if following is not None:
                         break
             if following is None:
+                if width - cut.stage > self.engine.max_span:
+                    return self._unknown(self._stuck_reason(
+                        cut, f"no stage from {cut.stage + 1} to {last} could be proved"))
                 break
             cut = following
             for node_id in cut.facts:
@@ -116,16 +121,31 @@ class _Run:
             self._report(cut.stage)
         return self._final(cut)
 
+    def _replay_hints(self) -> None:
+        """Replay the stimuli whose simulated outputs looked wrong; a real bug ends the run."""
+        for x in self.mining.wrong_inputs:
+            if self.problem.max_input is not None and x > self.problem.max_input:
+                continue
+            found = self.problem.replay(x)
+            if found is not None and found.replayed:
+                raise _Disproved(found, f"mining stimulus x = {x}")
+
     def _advance(self, cut: Cut, stage: int) -> Optional[Cut]:
         """Prove stage ``stage`` from ``cut``; the new cut, or None (reason in self.failures)."""
         mining = self.mining
         builder = self._builder(cut)
         reference = self._reference(cut.stage, stage)
         chosen: list[Candidate] = []
+        # Sparse digits collide with unrelated nodes: prefer nodes made just after the
+        # previous stage's (the graph numbers nodes in the order elaboration made them).
+        anchor = max(cut.facts, default=-1)
         try:
             for j in range(digit_count(stage)):
                 picked = None
-                for candidate in mining.candidates[stage][j][:self.engine.tries]:
+                ranked = sorted(mining.candidates[stage][j], key=lambda c: (
+                    c.tier, -mining.coverage(stage, c.node.id), c.node.id <= anchor,
+                    abs(c.node.id - anchor), c.low))
+                for candidate in ranked[:self.engine.tries]:
                     rebuilt = builder.slice(candidate.node, candidate.low + 3, candidate.low)
                     if candidate.complemented:
                         rebuilt = self.cone.not_(rebuilt)
@@ -241,7 +261,7 @@ class _Run:
         except NotACut:
             return False
         outcome = self._check(whole, self.cone.zero(node.width), builder.cut,
-                              f"stage {stage}: {node!r} is zero")
+                              f"stage {stage}: {node!r} is zero", cap=_ZERO_SECONDS)
         if outcome.status == outcomes.PROVED:
             self.zeros.add(node.id)
             return True
@@ -315,13 +335,13 @@ class _Run:
         return cone.ule(value, cone.const(self.problem.max_input, wide))
 
     def _check(self, rebuilt: Node, expected: Node, cut: Cut, where: str,
-               extra: Optional[Node] = None) -> Outcome:
+               extra: Optional[Node] = None, cap: Optional[float] = None) -> Outcome:
         cone = self.cone
         assume = self._assumptions([rebuilt, expected], cut)
         if extra is not None:
             assume = cone.and_(assume, extra)
         bad = cone.and_(assume, cone.ne(rebuilt, expected))
-        timeout = self.engine.obligation_seconds
+        timeout = self.engine.obligation_seconds if cap is None else cap
         left = self.budget.remaining()
         if left is not None:
             timeout = min(timeout, max(left, 0.001))
@@ -332,7 +352,8 @@ class _Run:
         if outcome.status == outcomes.UNDECIDED:
             self.failures.append(f"{where}: the solver gave up ({outcome.reason})")
             return
-        found = confirm(self.problem, outcome.values, cut.stage, cut.digits)
+        found = confirm(self.problem, outcome.values, cut.stage, cut.digits,
+                        screen=lambda inputs: screen(self.mining, self.problem, inputs))
         if found is not None:
             raise _Disproved(found, where)
         self.failures.append(f"{where}: fails on a state that no input reaches or that the "

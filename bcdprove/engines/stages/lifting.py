@@ -73,14 +73,21 @@ def candidate_inputs(values: dict[str, int], width: int, stage: int, stage_digit
     return out
 
 
-def confirm(problem, values: dict[str, int], stage: int, stage_digits: int) -> Optional[Counterexample]:
-    """A replayed counterexample reached from a failed obligation's state, or None."""
+def confirm(problem, values: dict[str, int], stage: int, stage_digits: int,
+            screen=None) -> Optional[Counterexample]:
+    """A replayed counterexample reached from a failed obligation's state, or None.
+
+    ``screen(inputs)`` may drop inputs a quick simulation shows right for every choice of
+    unknown values; every input it keeps still goes through ``problem.replay``.
+    """
     _, _, leaves = split_values(values)
     free_ids = {leaf.id for leaf in problem.free_leaves()}
     free_values = {k: v for k, v in leaves.items() if k in free_ids}
-    for x in candidate_inputs(values, problem.width, stage, stage_digits):
-        if problem.max_input is not None and x > problem.max_input:
-            continue
+    inputs = [x for x in candidate_inputs(values, problem.width, stage, stage_digits)
+              if problem.max_input is None or x <= problem.max_input]
+    if screen is not None:
+        inputs = screen(inputs)
+    for x in inputs:
         for choice in (free_values, None):
             found = problem.replay(x, choice)
             if found is not None and found.replayed:

@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import random
 from dataclasses import dataclass, field
+from typing import Optional
 
 from ...model.node import Node, Op, mask, topological
 from ...model.simulate import Simulator, pack
@@ -21,7 +22,7 @@ from .cuts import ConstBit, Fact, InputBit
 from .reference import digit_count, step_planes
 
 _NARROW = range(4, 9)          # widths of the unnamed nodes searched (digit-sized cells)
-_KEEP = 12                     # candidates kept per digit of a stage
+_KEEP = 40                     # candidates kept per digit of a stage
 
 
 @dataclass(frozen=True)
@@ -46,9 +47,23 @@ class Mining:
     lanes: int
     inputs: list[int]
     candidates: list[list[list[Candidate]]]       # [stage][digit] -> candidates, best first
+    wrong_inputs: list[int] = field(default_factory=list)        # lanes whose outputs were wrong
+    simulator: Optional[Simulator] = None                         # the mining run, for screening
+    _coverage: dict = field(default_factory=dict)
     planes: dict[int, list[int]] = field(default_factory=dict)    # node id -> value planes
     unknown: dict[int, list[int]] = field(default_factory=dict)   # node id -> unknown planes
     input_planes: dict[int, int] = field(default_factory=dict)    # x bit plane -> bit index
+
+    def coverage(self, stage: int, node_id: int) -> int:
+        """How many digits of ``stage`` have a candidate in node ``node_id``."""
+        counts = self._coverage.get(stage)
+        if counts is None:
+            counts = {}
+            for options in self.candidates[stage]:
+                for seen in {c.node.id for c in options}:
+                    counts[seen] = counts.get(seen, 0) + 1
+            self._coverage[stage] = counts
+        return counts.get(node_id, 0)
 
     def matched(self, stage: int) -> bool:
         """Every digit that can be non-zero at ``stage`` has at least one candidate."""
@@ -126,7 +141,7 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
     cone = topological(problem.digits)
     unnamed = [n for n in cone if n.width in _NARROW and n.op not in Op.LEAVES
                and n.op != Op.CONST and n.id not in named_ids]
-    roots = [node for _, node in named] + unnamed
+    roots = [node for _, node in named] + unnamed + list(problem.digits)
     simulator = Simulator(roots)
     given = {}
     for leaf in simulator.leaves:
@@ -172,17 +187,62 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
     for digits in candidates:
         _rank(digits)
     input_planes = {plane: k for k, plane in enumerate(x_planes)}
+    shown = results[len(roots) - len(problem.digits):]
+    wrong = _wrong_lanes(problem, values, shown, reference[width])
     return Mining(width=width, lanes=lanes, inputs=values, candidates=candidates, planes=planes,
-                  unknown=unknown, input_planes=input_planes)
+                  unknown=unknown, input_planes=input_planes, wrong_inputs=wrong,
+                  simulator=simulator)
+
+
+def screen(mining: Mining, problem, inputs: list[int]) -> list[int]:
+    """The inputs whose outputs may be wrong by a quick lane simulation (unknowns count as
+    wrong); the rest are certainly right, so only these need the full replay."""
+    if not inputs or mining.simulator is None:
+        return list(inputs)
+    simulator = mining.simulator
+    lanes = len(inputs)
+    given = {}
+    for leaf in simulator.leaves:
+        if leaf is problem.x:
+            given[leaf.id] = pack(inputs, problem.width)
+        elif leaf.op != Op.FREE:
+            given[leaf.id] = [0] * leaf.width
+    if len(given) != sum(1 for leaf in simulator.leaves if leaf.op != Op.FREE):
+        return list(inputs)
+    results = simulator.run(lanes, given)
+    shown = results[len(results) - len(problem.digits):]
+    final = reference_planes(pack(inputs, problem.width), problem.width, lanes)[problem.width]
+    if any(leaf.op == Op.INPUT and leaf is not problem.x for leaf in simulator.leaves):
+        return list(inputs)                     # other inputs were pinned at zero: no proof of right
+    suspects = set(_wrong_lanes(problem, inputs, shown, final, limit=lanes))
+    return [x for x in inputs if x in suspects]
+
+
+def _wrong_lanes(problem, values: list[int], shown, final: list[tuple], limit: int = 8) -> list[int]:
+    """Inputs among the stimuli whose simulated outputs differ from the reference digits.
+
+    Only a hint (unknown values were left open): the engine replays each before believing it.
+    """
+    lanes = len(values)
+    bad = 0
+    for i, result in enumerate(shown):
+        expected = final[i] if i < len(final) else (0, 0, 0, 0)
+        for got, want, blind in zip(result.value, expected, result.unknown):
+            bad |= (got ^ want) | blind
+    for key in final[len(shown):]:            # digits the design does not show must be zero
+        for plane in key:
+            bad |= plane
+    return [values[k] for k in range(lanes) if bad >> k & 1][:limit]
 
 
 def _rank(digits: list[list[Candidate]]) -> None:
     """Order each digit's candidates: named first, then nodes holding more digits of the
-    stage (the digits of one stage usually sit in one register), then later nodes."""
+    stage (the digits of one stage usually sit in one register), then earlier nodes (a
+    sparse early digit can collide with a late node whose cone reaches back to the input)."""
     coverage: dict[int, int] = {}
     for options in digits:
         for node_id in {c.node.id for c in options}:
             coverage[node_id] = coverage.get(node_id, 0) + 1
     for options in digits:
-        options.sort(key=lambda c: (c.tier, -coverage[c.node.id], -c.node.id, c.low))
+        options.sort(key=lambda c: (c.tier, -coverage[c.node.id], c.node.id, c.low))
         del options[_KEEP:]

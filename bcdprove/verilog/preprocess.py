@@ -248,12 +248,14 @@ class _Scanner:
                 self._newline()
             elif c == "`":
                 self._backtick()
+            elif c == '"':
+                # Strings are copied whole, so nothing in them is taken for a directive.
+                end = _string_end(text, self.pos)
+                if self._active:
+                    self.current.append(text[self.pos:end])
+                self.pos = end
             elif not self._active:
                 self.pos += 1
-            elif c == '"':
-                end = _string_end(text, self.pos)
-                self.current.append(text[self.pos:end])
-                self.pos = end
             elif c == "\\":
                 end = _escaped_identifier_end(text, self.pos)
                 self.current.append(text[self.pos:end])

@@ -239,6 +239,12 @@ def test_conditional_on_one_line(tmp_path):
     assert _squash(pre.text) == "x yes y"
 
 
+def test_directive_words_inside_skipped_strings_are_text(tmp_path):
+    source = '`ifdef NO\n$display("`endif");\n`endif\nok\n'
+    pre = preprocess([_write(tmp_path, "q.v", source)])
+    assert _squash(pre.text) == "ok"
+
+
 def test_unterminated_ifdef_names_the_opening_line(tmp_path):
     path = _write(tmp_path, "u.v", "module m;\n`ifdef NEVER\nwire w;\nendmodule\n")
     with pytest.raises(BcdproveError) as caught:

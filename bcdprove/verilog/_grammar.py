@@ -14,7 +14,7 @@ import ply.yacc
 from pyverilog.vparser import ast as vast
 from pyverilog.vparser import parser as _base
 
-from ._lexer import SYSTEMVERILOG_WORDS, ExtendedLexer
+from ._lexer import ExtendedLexer
 
 __all__ = ["ExtendedParser", "SyntaxProblem", "FillConst", "Logic", "Int", "LoopDeclaration",
            "base_grammar_file"]
@@ -106,9 +106,8 @@ class ExtendedParser(_base.VerilogParser):
 
     def parse_text(self, text: str):
         """Parse one preprocessed text; raise SyntaxProblem on the first error."""
-        self.lexer.reset_lineno()
+        self.lexer.reset()
         self.lexer.directives = []
-        self.lexer.recent.clear()
         try:
             return self.parser.parse(text, lexer=self.lexer)
         except _base.ParseError:
@@ -124,10 +123,10 @@ class ExtendedParser(_base.VerilogParser):
         raise SyntaxProblem(f"syntax error: {msg}", line)
 
     def _raise_error(self, p):
-        for token in self.lexer.recent:
-            if token.type == "ID" and token.value in SYSTEMVERILOG_WORDS:
-                raise SyntaxProblem(f"unsupported SystemVerilog construct `{token.value}`",
-                                    token.lineno, unsupported=True)
+        word = self.lexer.systemverilog_word()
+        if word is not None:
+            raise SyntaxProblem(f"unsupported SystemVerilog construct `{word.value}`",
+                                word.lineno, unsupported=True)
         if p is None:
             raise SyntaxProblem("syntax error: unexpected end of input", self._current_line())
         raise SyntaxProblem(f"syntax error near {p.value!r}", p.lineno)

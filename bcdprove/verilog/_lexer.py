@@ -15,15 +15,19 @@ import ply.lex
 from ply.lex import TOKEN
 from pyverilog.vparser.lexer import VerilogLexer
 
-__all__ = ["ExtendedLexer", "SYSTEMVERILOG_WORDS"]
+__all__ = ["ExtendedLexer"]
 
-# Words that start SystemVerilog constructs the reader does not model.  They are not
-# keywords of 1364-2005, so they stay identifiers; a syntax error next to one names it.
-SYSTEMVERILOG_WORDS = frozenset({
-    "typedef", "struct", "union", "enum", "interface", "modport", "package", "import",
-    "class", "virtual", "bit", "byte", "shortint", "longint", "unique0", "priority",
-    "endinterface", "endpackage", "endclass", "program", "endprogram",
+# Words of SystemVerilog constructs the reader does not model.  They are not keywords of
+# 1364-2005, so they stay identifiers; a syntax error just after one names the construct.
+# The construct words count anywhere; the type words only where an item or statement starts
+# (a net may well be called `bit`).
+SYSTEMVERILOG_CONSTRUCTS = frozenset({
+    "typedef", "struct", "union", "enum", "interface", "endinterface", "modport", "package",
+    "endpackage", "import", "class", "endclass", "virtual", "program", "endprogram",
 })
+SYSTEMVERILOG_TYPES = frozenset({"bit", "byte", "shortint", "longint", "priority"})
+_ITEM_STARTS = frozenset({None, "SEMICOLON", "BEGIN", "END", "ENDMODULE", "ENDFUNCTION",
+                          "ENDGENERATE", "GENERATE", "ENDCASE"})
 
 _EXTRA_KEYWORDS = {"int": "INT", "automatic": "AUTOMATIC"}
 
@@ -44,7 +48,7 @@ class ExtendedLexer(VerilogLexer):
     """pyverilog's lexer with extra tokens; built without writing files or warnings.
 
     ``recent`` holds the last few tokens, so a syntax error can name a SystemVerilog word
-    that came just before it.
+    that came just before it (see ``systemverilog_word``).
     """
 
     reserved = dict(VerilogLexer.reserved, **_EXTRA_KEYWORDS)
@@ -65,15 +69,33 @@ class ExtendedLexer(VerilogLexer):
     def __init__(self, error_func):
         super().__init__(error_func)
         self.recent: collections.deque = collections.deque(maxlen=4)
+        self._previous_type = None
 
     def build(self, **kwargs):
         self.lexer = ply.lex.lex(object=self, errorlog=ply.lex.NullLogger(), **kwargs)
 
+    def reset(self) -> None:
+        """Forget the previous text: line 1, no recent tokens."""
+        self.lexer.lineno = 1
+        self.recent.clear()
+        self._previous_type = None
+
     def token(self):
         token = self.lexer.token()
         if token is not None:
-            self.recent.append(token)
+            self.recent.append((token, self._previous_type))
+            self._previous_type = token.type
         return token
+
+    def systemverilog_word(self):
+        """The earliest recent token that starts an unsupported SystemVerilog construct."""
+        for token, previous in self.recent:
+            if token.type != "ID":
+                continue
+            if token.value in SYSTEMVERILOG_CONSTRUCTS or (
+                    token.value in SYSTEMVERILOG_TYPES and previous in _ITEM_STARTS):
+                return token
+        return None
 
     # Function rules, in the order they are tried.  Comments are normally gone already
     # (the preprocessor blanks them) but are still skipped for text that was not.

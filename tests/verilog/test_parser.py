@@ -522,6 +522,7 @@ def test_named_and_positional_connections_and_parameter_overrides():
     ("package digits;\nendpackage", "package", 1),
     ("module m;\n  import digits::*;\nendmodule", "import", 2),
     ("class counter;\nendclass", "class", 1),
+    ("module m;\n  bit [3:0] n;\nendmodule", "bit", 2),
 ])
 def test_systemverilog_constructs_are_rejected_by_name(text, word, line):
     with pytest.raises(UnsupportedConstruct) as caught:
@@ -534,6 +535,13 @@ def test_systemverilog_words_are_still_ordinary_identifiers_in_verilog():
     # Not keywords in 1364-2005 (Annex B, recalled): a net may be called `bit`.
     module = _module("module m(input bit, output y);\n  assign y = bit;\nendmodule")
     assert module.portlist.ports[0].first.name == "bit"
+
+
+def test_a_net_named_like_a_systemverilog_type_is_not_blamed_for_a_later_error():
+    with pytest.raises(BcdproveError) as caught:
+        parse(_pre("module m;\n  wire bit;\n  assign = 1;\nendmodule"))
+    assert not isinstance(caught.value, UnsupportedConstruct)
+    assert caught.value.line == 3 and "'='" in caught.value.message
 
 
 # -- errors and locations -------------------------------------------------------------------

@@ -334,20 +334,15 @@ class ExtendedParser(_base.VerilogParser):
             self._problem(f"supply net {name!r} cannot be an array", lineno)
 
     def create_declassign(self, sigtypes, name, assign, width=None, lineno=0):
-        """``wire w = e`` is a net declaration assignment: [Wire, Assign] (continuous).
-        ``reg r = e`` / ``logic r = e`` is a variable initial value (clause 6.2.1): the
-        value goes into the Reg's ``value`` (an Rvalue) and no Assign is produced.
+        """[declared nodes..., Assign], as pyverilog does.  For ``wire w = e`` the Assign is
+        a net declaration assignment (continuous, clause 6.1.1); after a Reg or Logic
+        (``reg r = e``) it is the variable's initial value (clause 6.2.1), not a driver.
         """
         if not {"wire", "reg", "logic", "tri"} & set(sigtypes):
             self._problem(f"declaration of {name!r} with a value needs wire, reg or logic",
                           lineno)
         made = self.create_decl(sigtypes, name, width=width, lineno=lineno)
-        variables = [node for node in made if isinstance(node, vast.Reg)]
-        if variables:
-            for variable in variables:
-                variable.value = assign.right
-        else:
-            made.append(assign)
+        made.append(assign)
         return made
 
     def p_declassign(self, p):

@@ -3,6 +3,34 @@
 The grammar is pyverilog 1.3.0's ply grammar, extended in ``_grammar`` with the productions
 real converter files need.  ply's LALR tables are cached per user (never in the current
 directory or the installed package); when no cache is writable they are built in memory.
+
+Shapes of the added constructs (all other nodes are pyverilog's own):
+
+* ``'0 '1 'x 'z``: ``FillConst(IntConst)`` with ``value`` "'0", "'1", "'x" or "'z".
+* ``logic x``: ``Logic(Reg)``; ``output logic y``: Ioport(Output, Logic); ``input logic a``:
+  Ioport(Input, None).  ``int n``: ``Int(Integer)``, width 31:0, signed.
+* ``for (int i = 0; ...)`` / ``for (integer i ...)`` / ``for (genvar g = 0; ...)``: the
+  ForStatement's ``pre`` is ``LoopDeclaration(BlockingSubstitution)`` with ``kind`` ("int",
+  "integer", "genvar") and ``variable`` (Int / Integer / Genvar node, width 31:0).
+* ``i++``, ``--i``, ``a op= e`` (op in + - * & | ^ << >>): BlockingSubstitution(Lvalue(a),
+  Rvalue(Op(copy of a, e))) with e = IntConst("1") for ++/--; as statements and as for steps.
+* ``localparam`` inside ``#( ... )``: Paramlist.params holds Decl((Localparam, ...)).
+  ``parameter integer P`` / ``localparam int P``: width 31:0, signed True.
+* Functions: Function(name, retwidth, statement) where ``statement`` = one Decl((Input,))
+  per ANSI port, then the body declarations, then one statement (several become a Block);
+  extra attributes ``automatic``, ``signed`` and ``return_type`` ("implicit", "integer",
+  "int", "reg", "logic").  Integer inputs are Input(width 31:0, signed).
+* ``output reg [3:0] y = 0`` (ANSI): Ioport(Output, Reg) with the Reg's ``value`` an Rvalue.
+  ``reg r = e;`` in the body keeps pyverilog's [Reg, Assign] (the Assign is the initial
+  value); ``wire w = e, v = f;`` gives [Wire, Assign, Wire, Assign].
+* ``end : label`` / ``endmodule : name`` / ``endfunction : name``: checked, then dropped.
+* generate ``case``: CaseStatement(comp, (Case(conditions or None, item), ...)); ``for`` /
+  ``if`` / ``case`` outside a generate region: wrapped in GenerateStatement((item,)).
+* A lone ``;``: Block(()).  ``default`` without a colon: Case(None, statement).
+* ``always_comb`` / ``always_latch``: AlwaysComb / AlwaysLatch with SensList((Sens(None,
+  "all"),)).  A plain ``always`` without ``@`` is rejected.
+* ``v[b +: w]`` keeps pyverilog's Partselect(v, b, Plus(b, w)) (``-:`` uses Minus), ``b``
+  shared by identity.
 """
 from __future__ import annotations
 

@@ -556,6 +556,12 @@ def test_illegal_character_is_a_syntax_error_with_line():
     assert caught.value.line == 2
 
 
+def test_assignment_pattern_is_named_in_the_error():
+    with pytest.raises(BcdproveError) as caught:
+        parse(_pre("module m(output [1:0] y);\n  assign y = '{1'b0, 1'b1};\nendmodule"))
+    assert caught.value.line == 2 and "assignment pattern" in caught.value.message
+
+
 def test_location_maps_a_node_to_the_original_file_and_line(tmp_path):
     header = tmp_path / "body.vh"
     header.write_text("\n  assign y = 1'b1;\n")

@@ -77,6 +77,12 @@ def test_missing_top_file_is_an_error_naming_it(tmp_path):
     assert caught.value.file == path
 
 
+def test_a_folder_given_as_top_file_is_an_error_naming_it(tmp_path):
+    with pytest.raises(BcdproveError) as caught:
+        preprocess([str(tmp_path)])
+    assert caught.value.file == str(tmp_path)
+
+
 # -- `define and macro use (clause 19.3.1) ----------------------------------------------------
 def test_object_like_macro_is_replaced_by_its_text(tmp_path):
     pre = preprocess([_write(tmp_path, "d.v", "`define WIDTH 8\nwire [`WIDTH-1:0] w;\n")])
@@ -371,6 +377,14 @@ def test_celldefine_is_removed_and_noted(tmp_path):
     pre = preprocess([_write(tmp_path, "c.v", "`celldefine\nmodule m; endmodule\n`endcelldefine\n")])
     assert _squash(pre.text) == "module m; endmodule"
     assert any("celldefine" in note for note in pre.notes)
+
+
+def test_pragma_and_keyword_sets_are_removed_and_noted(tmp_path):
+    # Clauses 19.10 (`pragma) and 19.11 (`begin_keywords), recalled from memory.
+    source = '`begin_keywords "1364-2005"\n`pragma protect\nmodule m; endmodule\n`end_keywords\n'
+    pre = preprocess([_write(tmp_path, "k.v", source)])
+    assert _squash(pre.text) == "module m; endmodule"
+    assert len(pre.notes) == 2
 
 
 # -- Icarus Verilog as referee ------------------------------------------------------------------

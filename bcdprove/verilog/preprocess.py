@@ -293,6 +293,10 @@ class _Scanner:
             getattr(self, "_directive_" + name)(start_line)
         elif name in self.state.macros:
             self._use_macro(name, start_line)
+        elif name == "__LINE__":          # IEEE 1800: the line of the original source
+            self.current.append(str(start_line))
+        elif name == "__FILE__":
+            self.current.append('"' + self.path.replace("\\", "/") + '"')
         else:
             raise self._error(f"undefined macro or unknown compiler directive `{name}",
                               start_line)

@@ -186,6 +186,14 @@ def test_definitions_carry_from_one_file_to_the_next(tmp_path):
     assert pre.origin(2) == (second, 1)
 
 
+def test_file_and_line_macros_name_the_original_place(tmp_path):
+    # IEEE 1800 `__FILE__ / `__LINE__ (recalled): the file name string and the line number.
+    _write(tmp_path, "h.vh", "\nx = `__LINE__;\n")
+    top = _write(tmp_path, "t.v", 'f = `__FILE__;\n`include "h.vh"\n')
+    pre = preprocess([top])
+    assert f'f = "{top}";' in pre.text and "x = 2;" in pre.text
+
+
 # -- `undef (clause 19.3.2), unknown names ------------------------------------------------------
 def test_undef_removes_a_definition(tmp_path):
     path = _write(tmp_path, "u.v", "`define K 1\n`undef K\nx = `K;\n")
@@ -408,6 +416,7 @@ module readout_bench;
   initial begin
     $display("A=%0d B=%0d", A, B);  // "`SCALE" stays text: %0d
     $display("`SCALE");
+    $display("line %0d", `__LINE__);
   end
 endmodule
 """

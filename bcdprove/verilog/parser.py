@@ -108,8 +108,16 @@ def _parser() -> "_grammar.ExtendedParser":
 
 
 def _cache_directory() -> Path:
-    """Per-user cache folder for the tables, keyed by the grammar's sources and versions."""
-    root = os.environ.get("XDG_CACHE_HOME") or os.path.join(os.path.expanduser("~"), ".cache")
+    """Per-user cache folder for the tables, keyed by the grammar's sources and versions.
+
+    Raises OSError when there is no absolute cache root (a relative one would land in the
+    current directory), so the caller builds the tables in memory.
+    """
+    root = os.environ.get("XDG_CACHE_HOME", "")
+    if not os.path.isabs(root):          # the XDG rule: relative values are ignored
+        root = os.path.join(os.path.expanduser("~"), ".cache")
+    if not os.path.isabs(root):
+        raise OSError("no absolute cache folder")
     digest = hashlib.sha256()
     digest.update(f"{pyverilog.__version__}|{ply.__version__}|".encode())
     for source in (_grammar.__file__, _lexer.__file__, _grammar.base_grammar_file()):

@@ -593,9 +593,11 @@ print(tree.description.definitions[0].name)
 """
 
 
-def _parse_in_fresh_process(folder: Path, cache_home: str) -> str:
+def _parse_in_fresh_process(folder: Path, cache_home: str, home: str | None = None) -> str:
     (folder / "unit.v").write_text("module unit(input a, output y);\n  assign y = a;\nendmodule\n")
     env = dict(os.environ, XDG_CACHE_HOME=cache_home, PYTHONPATH=str(REPOSITORY))
+    if home is not None:
+        env["HOME"] = home
     done = subprocess.run([sys.executable, "-c", _PARSE_IN_CHILD], cwd=folder, env=env,
                           capture_output=True, text=True, check=True)
     return done.stdout.strip()
@@ -626,6 +628,13 @@ def test_unwritable_cache_falls_back_to_tables_in_memory(tmp_path):
     blocker = tmp_path / "not-a-folder"
     blocker.write_text("")
     assert _parse_in_fresh_process(work, str(blocker)) == "unit"
+    assert sorted(p.name for p in work.iterdir()) == ["unit.v"]
+
+
+def test_relative_cache_settings_never_write_into_the_current_folder(tmp_path):
+    work = tmp_path / "work"
+    work.mkdir()
+    assert _parse_in_fresh_process(work, "relative-cache", home="relative-home") == "unit"
     assert sorted(p.name for p in work.iterdir()) == ["unit.v"]
 
 

@@ -17,12 +17,25 @@ from ...model.node import Graph, Node, Op, leaves
 from . import obligations as outcomes
 from .cuts import ConeBuilder, ConstBit, Cut, DigitBit, InputBit, NotACut, digit_leaf, input_bit_leaf
 from .lifting import confirm
-from .mining import Candidate, Mining, mine, screen
+from .mining import Candidate, Mining, mine, nesting, screen
 from .obligations import ObligationSolver, Outcome
 from .reference import digit_count, step_nodes, top_pair_bound
 
 Progress = Callable[[int, int], None]
 _ZERO_SECONDS = 2.0      # a zero proof that is not quick is a cone that the cut does not bound
+
+
+def _runs(facts: list) -> list[tuple[int, int]]:
+    """Maximal runs ``(low, high)`` of consecutive bits that have a fact."""
+    runs = []
+    start = None
+    for i, fact in enumerate(facts + [None]):
+        if fact is not None and start is None:
+            start = i
+        elif fact is None and start is not None:
+            runs.append((start, i - 1))
+            start = None
+    return runs
 
 
 class _Disproved(Exception):
@@ -143,7 +156,7 @@ class _Run:
             for j in range(digit_count(stage)):
                 picked = None
                 ranked = sorted(mining.candidates[stage][j], key=lambda c: (
-                    c.tier, -mining.coverage(stage, c.node.id), c.node.id <= anchor,
+                    c.tier, nesting(c.name), -mining.coverage(stage, c.node.id), c.node.id <= anchor,
                     abs(c.node.id - anchor), c.low))
                 for candidate in ranked[:self.engine.tries]:
                     rebuilt = builder.slice(candidate.node, candidate.low + 3, candidate.low)
@@ -181,25 +194,41 @@ class _Run:
                 bits[candidate.low + b] = DigitBit(j, b, candidate.complemented)
         for node_id, bits in facts.items():
             node = nodes[node_id]
-            for i, known in enumerate(bits):
-                if known is not None:
-                    continue
-                fact = self.mining.bit_fact(node, i)
-                if fact is None:
-                    continue
-                if isinstance(fact, ConstBit):
-                    expected = self.cone.const(fact.value, 1)
-                else:
-                    expected = input_bit_leaf(self.cone, self.width, cut.stage, fact.index)
-                try:
-                    rebuilt = builder.slice(node, i, i)
-                except (NotACut, RecursionError):
-                    continue
-                where = f"stage {cut.stage} -> {stage}, bit {i} of {node!r}"
-                if self._check(rebuilt, expected, cut, where).status == outcomes.PROVED:
+            proposed = [None if known is not None else self.mining.bit_fact(node, i)
+                        for i, known in enumerate(bits)]
+            for low, high in _runs(proposed):
+                for i, fact in self._prove_bits(builder, cut, stage, node, low, high, proposed):
                     bits[i] = fact
         slots = {node_id: k for k, node_id in enumerate(facts)}
         return Cut(stage=stage, digits=digit_count(stage), facts=facts, slots=slots)
+
+    def _prove_bits(self, builder: ConeBuilder, cut: Cut, stage: int, node: Node, low: int,
+                    high: int, proposed: list) -> list[tuple[int, object]]:
+        """Prove the proposed constant and input-bit facts of ``node[high:low]``: the whole run
+        at once (one slice through the cone), bit by bit only where the run fails."""
+        def expected_bit(fact) -> Node:
+            if isinstance(fact, ConstBit):
+                return self.cone.const(fact.value, 1)
+            return input_bit_leaf(self.cone, self.width, cut.stage, fact.index)
+
+        where = f"stage {cut.stage} -> {stage}, bits {high}:{low} of {node!r}"
+        try:
+            rebuilt = builder.slice(node, high, low)
+            expected = self.cone.concat(*[expected_bit(proposed[i]) for i in range(high, low - 1, -1)])
+            if self._check(rebuilt, expected, cut, where).status == outcomes.PROVED:
+                return [(i, proposed[i]) for i in range(low, high + 1)]
+        except (NotACut, RecursionError):
+            return []
+        proved = []
+        for i in range(low, high + 1):
+            try:
+                rebuilt = builder.slice(node, i, i)
+            except (NotACut, RecursionError):
+                continue
+            if self._check(rebuilt, expected_bit(proposed[i]), cut,
+                           f"stage {cut.stage} -> {stage}, bit {i} of {node!r}").status == outcomes.PROVED:
+                proved.append((i, proposed[i]))
+        return proved
 
     def _final(self, cut: Cut) -> Verdict:
         """Outputs from the last proved stage: each equals the reference digit (zero above)."""
@@ -236,7 +265,7 @@ class _Run:
 
     # pieces ------------------------------------------------------------------------------------
     def _builder(self, cut: Cut) -> ConeBuilder:
-        limit = 4000 + 400 * digit_count(self.width)
+        limit = 20000 + 60 * digit_count(self.width) ** 2
         return ConeBuilder(self.cone, self.problem.x, self.width, cut, owners=self.owners,
                            zero_test=self._zero_test, limit=limit)
 

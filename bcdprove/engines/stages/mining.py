@@ -83,6 +83,12 @@ class Mining:
         return None if index is None else InputBit(index)
 
 
+def nesting(name: str) -> int:
+    """How deep inside loops a probe was taken (``work@step=3,digit=1`` is 1 deeper than
+    ``work@step=3``): the end of an outer iteration is where a stage is complete."""
+    return name.count(",") + name.count("#")
+
+
 def stimuli(width: int, seed: int = 2026, random_count: int = 64, boundary_count: int = 128) -> list[int]:
     """Input values for mining (see the module docstring); deterministic for a seed."""
     rng = random.Random(seed)
@@ -176,14 +182,21 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
             if hits is None or any(blind[low:low + 4]):
                 continue
             for s, j in hits:
-                candidates[s][j].append(Candidate(node, low, name, tier, complemented))
+                slot = (node.id, low, complemented)
+                known = offered.get((s, j, slot))
+                if known is not None and nesting(known.name) <= nesting(name):
+                    continue
+                offered[(s, j, slot)] = Candidate(node, low, name, tier, complemented)
 
+    offered: dict[tuple, Candidate] = {}     # one candidate per slice, under its outermost name
     for name, node in named:
         offer(node, name, 0)
     for node in unnamed:
         offer(node, f"n{node.id}", 1)
     for node in unnamed:
         offer(node, f"~n{node.id}", 2, complemented=True)
+    for (s, j, _), candidate in offered.items():
+        candidates[s][j].append(candidate)
     for digits in candidates:
         _rank(digits)
     input_planes = {plane: k for k, plane in enumerate(x_planes)}
@@ -244,5 +257,5 @@ def _rank(digits: list[list[Candidate]]) -> None:
         for node_id in {c.node.id for c in options}:
             coverage[node_id] = coverage.get(node_id, 0) + 1
     for options in digits:
-        options.sort(key=lambda c: (c.tier, -coverage[c.node.id], c.node.id, c.low))
+        options.sort(key=lambda c: (c.tier, nesting(c.name), -coverage[c.node.id], c.node.id, c.low))
         del options[_KEEP:]

@@ -24,6 +24,7 @@ __all__ = ["ExtendedLexer"]
 SYSTEMVERILOG_CONSTRUCTS = frozenset({
     "typedef", "struct", "union", "enum", "interface", "endinterface", "modport", "package",
     "endpackage", "import", "class", "endclass", "virtual", "program", "endprogram",
+    "return", "break", "continue", "foreach", "inside",
 })
 SYSTEMVERILOG_TYPES = frozenset({"bit", "byte", "shortint", "longint", "priority"})
 _ITEM_STARTS = frozenset({None, "SEMICOLON", "BEGIN", "END", "ENDMODULE", "ENDFUNCTION",

@@ -511,6 +511,8 @@ def test_named_and_positional_connections_and_parameter_overrides():
     ("module m;\n  import digits::*;\nendmodule", "import", 2),
     ("class counter;\nendclass", "class", 1),
     ("module m;\n  bit [3:0] n;\nendmodule", "bit", 2),
+    ("module m;\n  function integer f(input integer v);\n    return v + 1;\n"
+     "  endfunction\nendmodule", "return", 3),
 ])
 def test_systemverilog_constructs_are_rejected_by_name(text, word, line):
     with pytest.raises(UnsupportedConstruct) as caught:

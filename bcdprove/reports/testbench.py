@@ -33,13 +33,14 @@ def _vectors(result, limit: int) -> list[tuple[int, dict[str, int]]]:
     # Untied inputs need some value for the passing vectors: all zeros, else all ones.
     choices = [{leaf.id: 0 for leaf in free_inputs},
                {leaf.id: (1 << leaf.width) - 1 for leaf in free_inputs}]
-    for x in corner_values(problem.width, problem.top_value):
+    corners = [x for x in corner_values(problem.width, problem.top_value)
+               if x < problem.capacity()]
+    verdicts = [problem.shows_right(corners, choice) for choice in choices]
+    for index, x in enumerate(corners):
         if len(vectors) >= limit:
             break
-        if x >= problem.capacity():
-            continue
-        for choice in choices:
-            if problem.replay(x, choice) is None:
+        for choice, right in zip(choices, verdicts):
+            if right[index]:
                 vectors.append((x, {leaf.params[0]: choice[leaf.id] for leaf in free_inputs}))
                 break
     return vectors + too_large

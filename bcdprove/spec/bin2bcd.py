@@ -16,7 +16,7 @@ from typing import Mapping
 from ..engines.base import Counterexample
 from ..errors import BcdproveError
 from ..model.design import Model
-from ..model.node import Node, Op, evaluate, leaves, mask, substitute
+from ..model.node import Node, Op, apply_op, leaves, mask, substitute, topological
 from .ports import choose_input, choose_outputs
 
 
@@ -47,6 +47,10 @@ class Bin2BcdProblem:
     msd_first: bool = False
     digit_sources: list[str] = field(default_factory=list)   # "bcd[7:4]" per digit, for reports
     _ok_node: Node | None = field(default=None, repr=False, compare=False)
+    _simulator: object = field(default=None, repr=False, compare=False)
+    _encoder: object = field(default=None, repr=False, compare=False)
+    _free: list | None = field(default=None, repr=False, compare=False)
+    _order: list | None = field(default=None, repr=False, compare=False)
 
     # reference -------------------------------------------------------------------------
     @property
@@ -81,7 +85,9 @@ class Bin2BcdProblem:
 
     def free_leaves(self) -> list[Node]:
         """Leaves besides ``x`` that the digits depend on: untied inputs and unknown values."""
-        return [n for n in leaves(self.digits) if n is not self.x]
+        if self._free is None:
+            self._free = [n for n in leaves(self.digits) if n is not self.x]
+        return list(self._free)
 
     def port_of(self, leaf: Node) -> str | None:
         """The input port an INPUT leaf stands for (None for unknown values)."""
@@ -116,18 +122,81 @@ class Bin2BcdProblem:
 
     # replay --------------------------------------------------------------------------------
     def evaluate(self, x: int, free_values: Mapping[int, int] | None = None) -> list[int]:
-        """The digits the model shows at ``x`` with every free leaf given in ``free_values``."""
-        values = {self.x.id: x}
-        values.update(free_values or {})
-        return evaluate(self.digits, values)
+        """The digits the model shows at ``x`` with every free leaf given in ``free_values``.
+
+        Scalar evaluation with the operator semantics of ``apply_op``, independent of the
+        bit-parallel simulator, so a replay also cross-checks the engines' simulation.
+        """
+        if self._order is None:
+            self._order = topological(self.digits)
+        values = dict(free_values or {})
+        values[self.x.id] = x
+        env: dict[int, int] = {}
+        for node in self._order:
+            if node.op == Op.CONST:
+                env[node.id] = node.value
+            elif node.op in Op.LEAVES:
+                if node.id not in values:
+                    raise KeyError(f"no value for leaf {node!r}")
+                env[node.id] = values[node.id] & mask(node.width)
+            else:
+                env[node.id] = apply_op(node.op, node.width, node.params,
+                                        [env[a.id] for a in node.args],
+                                        [a.width for a in node.args])
+        return [env[d.id] for d in self.digits]
+
+    def shows_right(self, xs: list[int], free_values: Mapping[int, int] | None = None) -> list[bool]:
+        """Per input in ``xs``: whether the digits are right for every choice of the free leaves
+        not in ``free_values`` (three-valued bit-parallel simulation; sound, may say False for
+        a right input whose digits the simulation cannot pin down)."""
+        from ..model.simulate import pack
+
+        if not xs:
+            return []
+        lanes = len(xs)
+        planes = self._run_ternary(lanes, pack(xs, self.width), dict(free_values or {}))
+        result = []
+        for lane, x in enumerate(xs):
+            if x >= self.capacity():
+                result.append(False)
+                continue
+            right = True
+            for digit, expected in zip(planes, self.expected_digits(x)):
+                if any(u >> lane & 1 for u in digit.unknown):
+                    right = False
+                    break
+                if sum((v >> lane & 1) << i for i, v in enumerate(digit.value)) != expected:
+                    right = False
+                    break
+            result.append(right)
+        return result
+
+    def _run_ternary(self, lanes: int, x_planes: list[int], given: Mapping[int, int]):
+        from ..model.simulate import Simulator, pack
+
+        if self._simulator is None:
+            self._simulator = Simulator(self.digits)
+        everyone = mask(lanes)
+        values, unknown = {self.x.id: x_planes}, {}
+        for leaf in self._simulator.leaves:
+            if leaf is self.x:
+                continue
+            if leaf.id in given:
+                values[leaf.id] = pack([given[leaf.id]] * lanes, leaf.width)
+            elif leaf.op != Op.FREE:       # an input must be given: mark it unknown instead
+                values[leaf.id] = [0] * leaf.width
+                unknown[leaf.id] = [everyone] * leaf.width
+        return self._simulator.run(lanes, values, unknown)
 
     def replay(self, x: int, free_values: Mapping[int, int] | None = None) -> Counterexample | None:
         """Simulate the model at ``x``; a replayed Counterexample when the output is wrong, else None.
 
-        Free leaves missing from ``free_values`` are first tried at zero; when that choice gives
-        right digits and some free leaf is still unchosen, z3 looks (with ``x`` fixed) for a
-        choice that makes a digit wrong.  None therefore means right for every such choice.
-        An ``x`` of 10**D or more is always wrong: D digits cannot show it.
+        Free leaves missing from ``free_values`` are unknown: a three-valued simulation shows
+        whether the digits depend on them at ``x``.  When they do not, the digits are compared
+        as they are; when they do, zero is tried for each, and if that gives right digits z3
+        looks (with ``x`` fixed) for a choice that makes a digit wrong.  None therefore means
+        right for every choice.  An ``x`` of 10**D or more is always wrong: D digits cannot
+        show it.
         """
         if not 0 <= x <= mask(self.width):
             raise ValueError(f"input {x} does not fit in {self.width} bits")
@@ -136,7 +205,7 @@ class Bin2BcdProblem:
         trial = dict(given)
         trial.update({leaf.id: 0 for leaf in unchosen})
         found = self._compare(x, trial)
-        if found is None and unchosen:
+        if found is None and unchosen and self._depends_on_unknowns(x, given):
             choice = self._solve_free(x, given, unchosen)
             if choice is not None:
                 found = self._compare(x, choice)
@@ -144,6 +213,13 @@ class Bin2BcdProblem:
                     raise AssertionError("z3 choice of free values did not replay as wrong; "
                                          "the model and its z3 translation disagree")
         return found
+
+    def _depends_on_unknowns(self, x: int, given: Mapping[int, int]) -> bool:
+        """Whether some digit bit at ``x`` is unknown with the unchosen free leaves unknown."""
+        from ..model.simulate import pack
+
+        planes = self._run_ternary(1, pack([x], self.width), given)
+        return any(any(p.unknown) for p in planes)
 
     def _compare(self, x: int, values: dict[int, int]) -> Counterexample | None:
         actual = self.evaluate(x, values)
@@ -175,8 +251,10 @@ class Bin2BcdProblem:
 
         from ..model.smt import Z3Encoder
 
-        encoder = Z3Encoder()
-        solver = z3.Solver(ctx=getattr(encoder, "ctx", None))
+        if self._encoder is None:
+            self._encoder = Z3Encoder()
+        encoder = self._encoder
+        solver = z3.Solver(ctx=encoder.ctx)
         solver.add(encoder.term(self.x) == x)
         by_id = {leaf.id: leaf for leaf in self.free_leaves()}
         for leaf_id, value in given.items():

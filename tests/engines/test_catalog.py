@@ -41,8 +41,15 @@ def test_exhaustive_finds_the_first_failing_input(entry):
     assert found.inputs[entry.inputs[0]] == entry.first_failing_input
 
 
-@pytest.mark.parametrize("entry", [e for e in ENTRIES if e.expected == "disproved"],
-                         ids=lambda e: e.name)
+DISPROVED = [e for e in ENTRIES if e.expected == "disproved"]
+
+
+def _quick_then_slow(entries, quick):
+    """The first ``quick`` entries in the default run, the rest only with -m slow."""
+    return entries[:quick] + [pytest.param(e, marks=pytest.mark.slow) for e in entries[quick:]]
+
+
+@pytest.mark.parametrize("entry", _quick_then_slow(DISPROVED, 3), ids=lambda e: e.name)
 def test_counterexamples_fail_in_icarus(entry):
     result = _check(entry, "smt", timeout=60)
     if result.verdict.status != "disproved":
@@ -53,7 +60,8 @@ def test_counterexamples_fail_in_icarus(entry):
     assert f"bcdprove testbench: FAIL at input {found.inputs[entry.inputs[0]]}" in text
 
 
-@pytest.mark.parametrize("entry", [e for e in ENTRIES if e.expected == "proved"][:6],
+@pytest.mark.parametrize("entry", _quick_then_slow([e for e in ENTRIES
+                                                   if e.expected == "proved"], 3),
                          ids=lambda e: e.name)
 def test_proved_designs_pass_their_testbench_in_icarus(entry):
     result = _check(entry, "exhaustive")
@@ -63,7 +71,8 @@ def test_proved_designs_pass_their_testbench_in_icarus(entry):
     assert "bcdprove testbench: PASS" in text
 
 
-@pytest.mark.parametrize("entry", [e for e in ENTRIES if e.width <= 14], ids=lambda e: e.name)
+@pytest.mark.parametrize("entry", _quick_then_slow([e for e in ENTRIES if e.width <= 14], 4),
+                         ids=lambda e: e.name)
 def test_smt_agrees_with_catalog(entry):
     result = _check(entry, "smt", timeout=60)
     assert result.verdict.status == entry.expected

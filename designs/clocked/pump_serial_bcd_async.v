@@ -17,7 +17,8 @@ module pump_serial_bcd_async #(
     reg [3:0]            digit [0:D-1];
     reg [W-1:0]          pending;
     reg [COUNT_BITS-1:0] bits_left;
-    integer k;
+    integer k;   // loop index of the combinational block
+    integer r;   // loop index of the clocked block: one variable per process, no shared driver
 
     // The digits after one more input bit: correct every digit >= 5, then double.
     reg [3:0] next_digit [0:D-1];
@@ -37,11 +38,11 @@ module pump_serial_bcd_async #(
             done      <= 1'b0;
             pending   <= {W{1'b0}};
             bits_left <= {COUNT_BITS{1'b0}};
-            for (k = 0; k < D; k = k + 1)
-                digit[k] <= 4'd0;
+            for (r = 0; r < D; r = r + 1)
+                digit[r] <= 4'd0;
         end else if (bits_left != 0) begin
-            for (k = 0; k < D; k = k + 1)
-                digit[k] <= next_digit[k];
+            for (r = 0; r < D; r = r + 1)
+                digit[r] <= next_digit[r];
             pending   <= {pending[W-2:0], 1'b0};
             bits_left <= bits_left - 1'b1;
             done      <= (bits_left == 1);
@@ -49,8 +50,8 @@ module pump_serial_bcd_async #(
             done      <= 1'b0;
             pending   <= total;
             bits_left <= W;
-            for (k = 0; k < D; k = k + 1)
-                digit[k] <= 4'd0;
+            for (r = 0; r < D; r = r + 1)
+                digit[r] <= 4'd0;
         end
     end
 endmodule

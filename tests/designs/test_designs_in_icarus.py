@@ -32,16 +32,29 @@ HANDSHAKE = [e for e in ENTRIES if e.clocked and e.raw["protocol"] == "handshake
 PIPELINE = [e for e in ENTRIES if e.clocked and e.raw["protocol"] == "pipeline"]
 
 
+# Past this width (the slow entries, W = 128 and 256) an event-driven simulator spends about a
+# second (W = 128) to several seconds (W = 256) on one vector of a structural array, so only some
+# powers are corners and few random values are added.
+THIN_CORNERS_WIDTH = 64
+RANDOM_VECTORS_THIN = 4
+
+
 def corner_inputs(width: int) -> set[int]:
-    """0, 1, 2^k - 1, 2^k, 10^k - 1, 10^k and all ones, as far as they fit in ``width`` bits."""
+    """0, 1, 2^k - 1, 2^k, 10^k - 1, 10^k and all ones, as far as they fit in ``width`` bits.
+
+    Above THIN_CORNERS_WIDTH only every width/4-th power of two and width/8-th power of ten.
+    """
     top = (1 << width) - 1
+    thin = width > THIN_CORNERS_WIDTH
+    two_stride, ten_stride = (width // 4, width // 8) if thin else (1, 1)
     values = {0, 1, top}
-    for k in range(width + 1):
+    for k in range(0, width + 1, two_stride):
         values.update({(1 << k) - 1, 1 << k})
-    power = 1
-    while power <= top:
-        values.update({power - 1, power})
-        power *= 10
+    k = 0
+    while 10 ** k <= top:
+        if k % ten_stride == 0:
+            values.update({10 ** k - 1, 10 ** k})
+        k += 1
     return {v for v in values if 0 <= v <= top}
 
 
@@ -52,7 +65,12 @@ def vectors_for(entry: Entry) -> list[int]:
         return list(range(top + 1))
     chosen = corner_inputs(entry.width)
     generator = random.Random(f"{entry.name}-vectors")
-    count = RANDOM_VECTORS if entry.width <= 32 else RANDOM_VECTORS_WIDE
+    if entry.width <= 32:
+        count = RANDOM_VECTORS
+    elif entry.width <= THIN_CORNERS_WIDTH:
+        count = RANDOM_VECTORS_WIDE
+    else:
+        count = RANDOM_VECTORS_THIN
     chosen.update(generator.randint(0, top) for _ in range(count))
     failure = entry.first_failing_input
     if failure is not None:

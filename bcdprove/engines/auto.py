@@ -34,6 +34,21 @@ class AutoEngine:
         plan.append(stages if stages is not None else SmtEngine(self.options.smt_form))
         return plan
 
+    def _smallest(self, problem, budget: Budget, found: Verdict, stats: dict) -> Verdict:
+        """When every input can be simulated, the smallest failing one reads best in a report;
+        exhaustive simulation stops at it, so this costs no more than reaching it."""
+        from .exhaustive import ExhaustiveEngine
+
+        exhaustive = ExhaustiveEngine(self.options.exhaustive_limit)
+        if not exhaustive.applies(problem) or budget.expired():
+            return found
+        smallest = exhaustive.run(problem, budget)
+        stats["engines"].append({"engine": smallest.engine, "status": smallest.status,
+                                 "seconds": round(smallest.seconds, 3), **smallest.stats})
+        if smallest.status == DISPROVED and smallest.counterexample.replayed:
+            return smallest
+        return found
+
     def run(self, problem, budget: Budget) -> Verdict:
         started = time.monotonic()
         covered: list[str] = []
@@ -53,6 +68,11 @@ class AutoEngine:
                                                     or not verdict.counterexample.replayed):
                     reasons.append(f"{verdict.engine}: a counterexample without replay was ignored")
                     continue
+                if verdict.status == DISPROVED and verdict.engine == "random":
+                    smallest = self._smallest(problem, budget, verdict, stats)
+                    if smallest is not verdict:
+                        covered.append(f"smallest failing input: {smallest.covered}")
+                        verdict = smallest
                 return Verdict(verdict.status, f"auto ({verdict.engine})",
                                time.monotonic() - started, counterexample=verdict.counterexample,
                                covered="; ".join(covered), stats=stats)

@@ -73,8 +73,24 @@ def parse(pre: Preprocessed) -> vast.Source:
         raise kind(problem.message, file, line) from None
     except RecursionError:
         raise BcdproveError("syntax error: nesting too deep to parse", pre.origin(1)[0]) from None
+    _fill_line_numbers(source, pre.text.count("\n"))
     _apply_default_nettype(source, pre)
     return source
+
+
+def _fill_line_numbers(source: vast.Source, last_line: int) -> None:
+    """Give every node a line of the text: a node pyverilog left at 0 (an empty parameter
+    list, the implicit sensitivity of always_comb, ...) takes its parent's line.
+
+    Iterative, because a long expression chain nests deeper than Python's recursion limit.
+    """
+    pending = [(source, 1)]
+    while pending:
+        node, parent_line = pending.pop()
+        line = getattr(node, "lineno", 0)
+        if not isinstance(line, int) or not 1 <= line <= last_line:
+            node.lineno = line = parent_line
+        pending.extend((child, line) for child in node.children() if child is not None)
 
 
 def _apply_default_nettype(source: vast.Source, pre: Preprocessed) -> None:

@@ -574,6 +574,19 @@ def test_location_maps_a_node_to_the_original_file_and_line(tmp_path):
     assert location(pre, assign) == SourceLocation(str(header), 2)
 
 
+def test_every_node_has_a_line_of_the_text():
+    text = ACCEPTED["always_kinds"] + "\n" + ACCEPTED["indexed_selects"]
+    lines = text.count("\n") + 1
+    assert all(1 <= node.lineno <= lines for node in _all(parse(_pre(text)), vast.Node))
+
+
+def test_a_long_expression_chain_parses():
+    terms = " + ".join(f"a[{i % 8}]" for i in range(3000))
+    tree = parse(_pre(f"module m(input [7:0] a, output [15:0] y);\n  assign y = {terms};\n"
+                      "endmodule"))
+    assert tree.description.definitions[0].name == "m"
+
+
 def test_shipped_designs_parse():
     files = sorted((REPOSITORY / "designs").rglob("*.v")) + sorted(
         (REPOSITORY / "designs").rglob("*.sv"))

@@ -472,6 +472,15 @@ class ExtendedParser(_base.VerilogParser):
             self._problem(f"end label {closed!r} does not match begin label {opened!r}",
                           lineno)
 
+    def p_block_statement_declaration(self, p):
+        """block_statement : decl
+        | integerdecl
+        | intdecl
+        | parameterdecl
+        """
+        # IEEE 1800 allows declarations in an unnamed begin ... end too.
+        self.p_namedblock_statement(p)
+
     def p_namedblock_statement(self, p):
         """namedblock_statement : basic_statement
         | decl

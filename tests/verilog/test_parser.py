@@ -179,6 +179,9 @@ ACCEPTED = {
         "module compound_on_selects(input [7:0] a, output reg [7:0] y);\n"
         "  always @* begin\n    y = a;\n    y[3:0] += 4'd3;\n    y[7] ^= 1'b1;\n"
         "    y <<= 1;\n  end\nendmodule",
+    "unnamed_block_declarations":
+        "module unnamed_block_declarations(input [3:0] a, output logic [3:0] y);\n"
+        "  always_comb begin\n    logic [3:0] t;\n    t = a + 1;\n    y = t;\n  end\nendmodule",
     "null_statements":
         "module null_statements(input [1:0] a, output reg y);\n"
         "  always @* begin\n    y = 0;\n    case (a)\n      2'd0: ;\n      default y = 1;\n"

@@ -13,7 +13,7 @@ Leaves of the cone graph are named relative to the stage, so every stage of a lo
 very same nodes: ``d{j}`` (4 bits) is digit ``j`` of the stage, ``b{o}`` (1 bit) is input bit
 ``x[W - s - 1 - o]`` (``b0`` is the next bit to shift in), ``e{k}_{j}`` digit ``j`` of the
 proved stage ``k`` steps earlier (older stages stop the copy too: their facts are proved),
-``u{k}_{slot}_{i}`` a cut bit with no fact, ``free{id}_{i}`` bit ``i`` of the design's unknown value node ``id``, ``in{id}_{i}``
+``free{id}_{i}`` bit ``i`` of the design's unknown value node ``id``, ``in{id}_{i}``
 bit ``i`` of another input leaf.
 """
 from __future__ import annotations
@@ -132,7 +132,13 @@ class ConeBuilder:
             return input_bit_leaf(cone, self.width, self.cut.stage, fact.index)
         if isinstance(fact, ConstBit):
             return cone.const(fact.value, 1)
-        return cone.input(f"u{distance}_{owner.slots[node.id]}_{i}", 1)
+        # No fact for this bit: copy its own logic (the node may hold facts only in part,
+        # e.g. a part of a stage register that the facts were spread to).
+        key = (node.id, i, -1 - i)
+        found = self._memo.get(key)
+        if found is None:
+            found = self._memo[key] = self._define(node, i, i)
+        return found
 
     def _leaf_bit(self, node: Node, i: int) -> Node:
         if node is self.x:
@@ -142,13 +148,17 @@ class ConeBuilder:
         return self.cone.input(f"in{node.id}_{i}", 1)
 
     def _build(self, node: Node, hi: int, lo: int) -> Node:
-        cone = self.cone
-        width = hi - lo + 1
-        op = node.op
         owner = self._owners.get(node.id)
         if owner is not None and owner.stage <= self.cut.stage:
             distance = self.cut.stage - owner.stage
             return self._bits(lambda i: self._cut_bit(node, owner, distance, i), hi, lo)
+        return self._define(node, hi, lo)
+
+    def _define(self, node: Node, hi: int, lo: int) -> Node:
+        """``node[hi:lo]`` from the node's own operator and arguments."""
+        cone = self.cone
+        width = hi - lo + 1
+        op = node.op
         if op == Op.CONST:
             return cone.const((node.value >> lo) & mask(width), width)
         if op in Op.LEAVES:

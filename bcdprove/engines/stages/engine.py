@@ -25,6 +25,47 @@ Progress = Callable[[int, int], None]
 _ZERO_SECONDS = 2.0      # a zero proof that is not quick is a cone that the cut does not bound
 
 
+def _spread(facts: dict[int, list], nodes: dict[int, Node], depth: int = 4) -> None:
+    """Give the parts of a cut node its facts: the bits of ``concat(a, b)`` are the bits of
+    ``a`` and ``b``, those of ``extract(m)`` bits of ``m``, the low bits of ``zext(a)`` those
+    of ``a``.  Hash-consing folds a slice of a concatenation to the part itself, so the next
+    stage usually reads the parts, not the node the mining named.  Leaves get no facts (the
+    input's bits must stay input bits)."""
+    frontier = list(nodes.values())
+    for _ in range(depth):
+        following = []
+        for node in frontier:
+            bits = facts[node.id]
+            pieces = []
+            if node.op == Op.CONCAT:
+                offset = node.width
+                for part in node.args:
+                    offset -= part.width
+                    pieces.append((part, offset))
+            elif node.op == Op.EXTRACT:
+                pieces.append((node.args[0], -node.params[1]))
+            elif node.op == Op.ZEXT:
+                pieces.append((node.args[0], 0))
+            for part, offset in pieces:
+                if part.op in Op.LEAVES:
+                    continue
+                known = facts.get(part.id)
+                fresh = known is None
+                if fresh:
+                    known = [None] * part.width
+                changed = False
+                for i in range(part.width):
+                    position = i + offset
+                    if known[i] is None and 0 <= position < node.width and bits[position] is not None:
+                        known[i] = bits[position]
+                        changed = True
+                if changed:
+                    facts[part.id] = known
+                    nodes[part.id] = part
+                    following.append(part)
+        frontier = following
+
+
 def _runs(facts: list) -> list[tuple[int, int]]:
     """Maximal runs ``(low, high)`` of consecutive bits that have a fact."""
     runs = []
@@ -96,6 +137,7 @@ class _Run:
         self.mining_seconds = 0.0
         self.proved_stage = 0
         self.failures: list[str] = []
+        self.cuts: list[Cut] = [Cut.empty()]
         self.owners: dict[int, Cut] = {}          # node id -> newest proved cut holding it
         self.zeros: set[int] = set()               # nodes proved to be zero for every input
         self._zero_tried: dict[int, int] = {}      # node id -> stage of a failed zero proof
@@ -128,11 +170,22 @@ class _Run:
                         cut, f"no stage from {cut.stage + 1} to {last} could be proved"))
                 break
             cut = following
+            self.cuts.append(cut)
             for node_id in cut.facts:
                 self.owners[node_id] = cut
             self.proved_stage = cut.stage
             self._report(cut.stage)
-        return self._final(cut)
+        # The outputs may read an earlier stage's signals than the ones chosen for the last
+        # stage; every proved stage is a sound starting point, so try the latest few.
+        earlier = [c for c in self.cuts if c is not cut][::-1][:self.engine.max_span]
+        first = self._final(cut)
+        for start in earlier:
+            if first.status != UNKNOWN:
+                break
+            verdict = self._final(start)
+            if verdict.status != UNKNOWN:
+                return verdict
+        return first
 
     def _replay_hints(self) -> None:
         """Replay the stimuli whose simulated outputs looked wrong; a real bug ends the run."""
@@ -199,6 +252,7 @@ class _Run:
             for low, high in _runs(proposed):
                 for i, fact in self._prove_bits(builder, cut, stage, node, low, high, proposed):
                     bits[i] = fact
+        _spread(facts, nodes)
         slots = {node_id: k for k, node_id in enumerate(facts)}
         return Cut(stage=stage, digits=digit_count(stage), facts=facts, slots=slots)
 

@@ -369,8 +369,11 @@ class _Run:
         """Valid digits (each <= 9) and each stage's range, for the digit leaves ``nodes`` use."""
         cone = self.cone
         used: dict[int, set[int]] = {}            # distance back -> digit indices
+        consumed = False                          # reads an input bit already in the digits
         for leaf in leaves(nodes):
             name = leaf.params[0]
+            if name.startswith("b-"):
+                consumed = True
             if leaf.width != 4:
                 continue
             if name.startswith("d") and name[1:].isdigit():
@@ -387,7 +390,26 @@ class _Run:
             top = digit_count(stage) - 1
             if top in digits:
                 condition = cone.and_(condition, self._top_pair(stage, distance))
+        if consumed and cut.digits:
+            condition = cone.and_(condition, self._value_link(cut))
         return condition
+
+    def _value_link(self, cut: Cut) -> Node:
+        """The stage digits read as a number equal the input bits they came from.
+
+        Needed when a cone reads both: e.g. a short path for small inputs beside the
+        converter.  Every digit is constrained to be at most 9 with it."""
+        cone = self.cone
+        wide = cut.stage + 4
+        value = cone.zero(wide)
+        condition = cone.const(1, 1)
+        for j in range(cut.digits):
+            digit = digit_leaf(cone, j)
+            condition = cone.and_(condition, cone.ule(digit, cone.const(9, 4)))
+            value = cone.add(value, cone.mul(cone.zext(digit, wide), cone.const(10 ** j, wide)))
+        bits = cone.concat(*[input_bit_leaf(cone, self.width, cut.stage, self.width - 1 - k)
+                             for k in range(cut.stage)])
+        return cone.and_(condition, cone.eq(value, cone.zext(bits, wide)))
 
     def _top_pair(self, stage: int, distance: int) -> Node:
         """The top two digits of stage ``stage`` read as a number are at most its bound."""

@@ -149,12 +149,17 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
                and n.op != Op.CONST and n.id not in named_ids]
     roots = [node for _, node in named] + unnamed + list(problem.digits)
     simulator = Simulator(roots)
+    noise = random.Random(lanes_seed + 1)
     given = {}
     for leaf in simulator.leaves:
         if leaf is problem.x:
             given[leaf.id] = pack(values, width)
-        elif leaf.op != Op.FREE:
-            given[leaf.id] = [0] * leaf.width      # other inputs: a proposal needs only one choice
+        elif leaf.op == Op.FREE:
+            # Unknown values at random (a two-valued run is the fast one): a node that
+            # depends on them then rarely looks constant.
+            given[leaf.id] = [noise.getrandbits(lanes) for _ in range(leaf.width)]
+        else:
+            given[leaf.id] = [0] * leaf.width      # other inputs: a proposal needs one choice
     results = simulator.run(lanes, given)
     planes = {}
     unknown = {}

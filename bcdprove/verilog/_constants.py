@@ -10,6 +10,7 @@ Contracts:
 """
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass
 from typing import Callable, Optional
@@ -36,6 +37,7 @@ _BASES = {"b": 2, "o": 8, "d": 10, "h": 16}
 _BITS_PER_DIGIT = {2: 1, 8: 3, 16: 4}
 
 
+@functools.lru_cache(maxsize=4096)
 def parse_literal(text: str) -> Literal:
     """Read a literal's text; raise ValueError (with a message naming it) when malformed."""
     raw = text.replace("_", "").replace(" ", "").replace("\t", "")

@@ -65,6 +65,8 @@ class Expressions:
         self.scope = scope
         self.frame = frame
         self.constant = constant
+        # id -> (node, type): keeping the node alive keeps its id from being reused
+        self._types: dict[int, tuple[Any, Type]] = {}
 
     # ------------------------------------------------------------------ errors
     def error(self, message: str, node: Any, kind: type = BcdproveError) -> BcdproveError:
@@ -112,6 +114,15 @@ class Expressions:
 
     # ------------------------------------------------------------------ types
     def type_of(self, e: Any) -> Type:
+        """Self-determined width and signedness of ``e`` (memoised per syntax node)."""
+        known = self._types.get(id(e))
+        if known is not None:
+            return known[1]
+        found = self._type_of(e)
+        self._types[id(e)] = (e, found)
+        return found
+
+    def _type_of(self, e: Any) -> Type:
         if isinstance(e, (vast.Rvalue, vast.Lvalue)):
             return self.type_of(e.var)
         if isinstance(e, vast.IntConst):

@@ -174,13 +174,7 @@ class Elaborator(Resolver):
                 target = last
                 if isinstance(target, Var) and target.is_variable:
                     # clause 6.2.1: a variable declaration assignment is an initial value
-                    expressions = Expressions(self, scope, constant=True)
-                    rtype = expressions.type_of(declared.right.var)
-                    value = expressions.value(declared.right.var, max(target.width, rtype.width),
-                                              rtype.signed)
-                    if value.op != Op.CONST:
-                        raise self.error("initial value is not constant", declared)
-                    target.init_node = self.graph.extract(value, target.width - 1, 0)
+                    self._initial_value(scope, target, declared.right.var, declared)
                 else:
                     pending.append((scope, declared))    # a net declaration assignment
             elif isinstance(declared, vast.Real):
@@ -191,6 +185,14 @@ class Elaborator(Resolver):
             else:
                 raise self.error(f"unsupported construct `{type(declared).__name__}`",
                                  declared, UnsupportedConstruct)
+
+    def _initial_value(self, scope: Scope, target: Var, expr: Any, node: Any) -> None:
+        expressions = Expressions(self, scope, constant=True)
+        rtype = expressions.type_of(expr)
+        value = expressions.value(expr, max(target.width, rtype.width), rtype.signed)
+        if value.op != Op.CONST:
+            raise self.error("initial value is not constant", node)
+        target.init_node = self.graph.extract(value, target.width - 1, 0)
 
     def _parameter(self, scope: Scope, declared: vast.Parameter) -> None:
         instance = scope.instance
@@ -229,6 +231,10 @@ class Elaborator(Resolver):
         var = self._variable(scope, declared, port=True)
         if second is not None:
             self._variable(scope, second)
+            initial = getattr(second, "value", None)
+            if initial is not None and var.is_variable:
+                self._initial_value(scope, var, initial.var if isinstance(initial, vast.Rvalue)
+                                    else initial, second)
         if instance.is_top and direction == "input":
             var.fixed = self.graph.input(var.name, var.width)
             var.direction = "input"
@@ -569,11 +575,7 @@ class Elaborator(Resolver):
     # --------------------------------------------------------------- implicit nets
     def implicit_net(self, scope: Scope, name: str, node: Any) -> Var:
         """Clause 6.5: an undeclared name used as a port connection or assignment target."""
-        nettype = "wire"
-        line = getattr(node, "lineno", 0) or 0
-        for directive_line, value in getattr(self.pre, "default_nettype", ()) or ():
-            if directive_line <= line:
-                nettype = value
+        nettype = getattr(scope.module, "default_nettype", "wire") or "wire"
         if nettype == "none":
             raise self.error(f"undeclared identifier `{name}` (`default_nettype none forbids "
                              f"implicit nets)", node)

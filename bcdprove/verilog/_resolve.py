@@ -246,6 +246,8 @@ class Resolver:
     def _function_shape(self, function: FunctionDef) -> tuple[int, bool, int, int]:
         ast = function.ast
         constant = Expressions(self, function.scope, constant=True)
+        if getattr(ast, "return_type", None) in ("integer", "int"):
+            return 32, True, 31, 0
         if ast.retwidth is None:
             return 1, bool(getattr(ast, "signed", False)), 0, 0
         msb, lsb = constant.const_int(ast.retwidth.msb), constant.const_int(ast.retwidth.lsb)

@@ -316,6 +316,16 @@ class Frame:
         return g.eq(selector, self.expressions.value(item, width, signed))
 
     def _loop(self, stmt: Any, pre: Any, cond: Any, post: Any, body: Any) -> None:
+        self.locals.append({})
+        try:
+            if pre is not None and hasattr(pre, "variable") and pre.variable is not None:
+                # `for (int i = 0; ...)`: i is local to the loop
+                self.design.local_var(self, pre.variable, self.scope, self.scope.prefix)
+            self._unrolled(stmt, pre, cond, post, body)
+        finally:
+            self.locals.pop()
+
+    def _unrolled(self, stmt: Any, pre: Any, cond: Any, post: Any, body: Any) -> None:
         self.run(pre)
         loop_var = self._loop_variable(pre, cond)
         count = 0

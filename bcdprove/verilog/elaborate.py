@@ -7,6 +7,7 @@ stack, so long chains of logic do not exhaust Python's recursion limit.
 """
 from __future__ import annotations
 
+import gc
 import sys
 import threading
 from typing import Any, Mapping, Optional, Sequence
@@ -60,6 +61,10 @@ def _run_deep(work) -> None:
     def target() -> None:
         old_limit = sys.getrecursionlimit()
         sys.setrecursionlimit(max(old_limit, _RECURSION_LIMIT))
+        # The graph only grows while elaborating and holds no reference cycles worth
+        # collecting; the cyclic collector rescanning it would make elaboration quadratic.
+        collecting = gc.isenabled()
+        gc.disable()
         try:
             work()
         except RecursionError:
@@ -68,6 +73,8 @@ def _run_deep(work) -> None:
         except BaseException as error:  # handed to the caller's thread below
             outcome["error"] = error
         finally:
+            if collecting:
+                gc.enable()
             sys.setrecursionlimit(old_limit)
 
     try:

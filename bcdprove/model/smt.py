@@ -19,7 +19,7 @@ __all__ = ["Z3Encoder"]
 
 
 class Z3Encoder:
-    """Memoised translator of the nodes of one graph (memo keyed by node id) into one z3 context."""
+    """Memoised translator of the nodes of one graph (keyed by node id) into one z3 context."""
 
     def __init__(self, ctx: z3.Context | None = None):
         self.ctx = ctx if ctx is not None else z3.main_ctx()

@@ -218,16 +218,18 @@ def test_worked_example_225():
     assert [lane[0] for lane in got] == [(0b0101, 0), (0b0010, 0), (0b0010, 0)]
 
 
+@pytest.mark.parametrize("width", [1, 3, 4, 7, 10])
 @pytest.mark.parametrize("builder", [double_dabble, division_by_ten])
-def test_converters_give_the_decimal_digits_of_every_10_bit_input(builder):
+def test_converters_give_the_decimal_digits_of_every_input(builder, width):
     g = Graph()
-    x, digits = builder(g, 10)
-    assert len(digits) == digit_count(10) == 4
-    lanes = 1 << 10
-    results = Simulator(digits).run(lanes, {x.id: counting_planes(0, lanes, 10)})
+    x, digits = builder(g, width)
+    count = len(str((1 << width) - 1))      # Python str: digits of the largest input
+    assert len(digits) == digit_count(width) == count
+    lanes = 1 << width
+    results = Simulator(digits).run(lanes, {x.id: counting_planes(0, lanes, width)})
     per_digit = [unpack(r.value, lanes) for r in results]
     for value in range(lanes):
-        assert [d[value] for d in per_digit] == _decimal_digits(value, 4)
+        assert [d[value] for d in per_digit] == _decimal_digits(value, count)
 
 
 def test_buggy_converter_is_wrong_at_ten():

@@ -165,6 +165,9 @@ class _Run:
                     if following is not None:
                         break
             if following is None:
+                if not any(self.mining.matched(s) for s in range(cut.stage + 1, last + 1)):
+                    self.failures.append(f"stages {cut.stage + 1} to {last}: no design signal "
+                                         f"matches their digits in simulation")
                 if width - cut.stage > self.engine.max_span:
                     return self._unknown(self._stuck_reason(
                         cut, f"no stage from {cut.stage + 1} to {last} could be proved"))
@@ -292,7 +295,7 @@ class _Run:
         try:
             builder = self._builder(cut)
             reference = self._reference(cut.stage, width)
-            bound = self._value_bound(cut) if problem.max_input is not None else None
+            bound = self._value_bound(reference) if problem.max_input is not None else None
             for i in range(max(shown, total)):
                 expected = reference[i] if i < total else cone.zero(4)
                 if i < shown:
@@ -314,7 +317,7 @@ class _Run:
         scope = (f"every input up to {problem.max_input}" if problem.max_input is not None
                  else f"every {width}-bit input")
         return Verdict(PROVED, self.engine.name,
-                       covered=f"{scope}: stage chain 0 -> {width} and the outputs, "
+                       covered=f"{scope}: stage chain 0 -> {cut.stage}, then the outputs; "
                                f"{self.solver.posed} obligations")
 
     # pieces ------------------------------------------------------------------------------------
@@ -423,21 +426,20 @@ class _Run:
                          cone.zext(digit_leaf(cone, top - 1, distance), 8))
         return cone.ule(value, cone.const(bound, 8))
 
-    def _value_bound(self, cut: Cut) -> Node:
-        """``x <= max_input`` in terms of the stage digits and the input bits still to come."""
-        cone, width = self.cone, self.width
-        wide = width + 4
-        value = cone.zero(wide)
-        for j in range(cut.digits):
-            term = cone.mul(cone.zext(digit_leaf(cone, j), wide), cone.const(10 ** j, wide))
-            value = cone.add(value, term)
-        rest = width - cut.stage
-        if rest:
-            value = cone.shl(value, cone.const(rest, wide))
-            low = cone.concat(*[input_bit_leaf(cone, width, cut.stage, width - cut.stage - 1 - o)
-                                for o in range(rest)])
-            value = cone.or_(value, cone.zext(low, wide))
-        return cone.ule(value, cone.const(self.problem.max_input, wide))
+    def _value_bound(self, reference: list[Node]) -> Node:
+        """``x <= max_input``, read on the reference digits of ``x`` (most significant first,
+        digit by digit): in every reachable state they are the digits of ``x``, and digit
+        comparisons stay small where a sum of digit multiples would not."""
+        cone = self.cone
+        limit = [int(c) for c in str(self.problem.max_input)[::-1]]
+        if len(limit) > len(reference):
+            return cone.const(1, 1)              # every value of the digits is below it
+        limit += [0] * (len(reference) - len(limit))
+        at_most = cone.const(1, 1)               # the digits below j are <= the limit's
+        for j in range(len(reference)):
+            digit, bound = reference[j], cone.const(limit[j], 4)
+            at_most = cone.or_(cone.ult(digit, bound), cone.and_(cone.eq(digit, bound), at_most))
+        return at_most
 
     def _check(self, rebuilt: Node, expected: Node, cut: Cut, where: str,
                extra: Optional[Node] = None, cap: Optional[float] = None) -> Outcome:
@@ -475,8 +477,8 @@ class _Run:
         if self.problem.max_input is not None:
             reason += ("; note: stages are proved for every input, only the step to the "
                        "outputs is restricted to x <= max_input")
-        if self.mining is not None and not any(self.mining.matched(s)
-                                               for s in range(4, self.width + 1)):
+        if self.mining is not None and 2 * sum(self.mining.matched(s) for s in
+                                               range(self.width + 1)) < self.width:
             reason += ("; no shift-and-correct stages were found in the design (a division by "
                        "ten design needs another engine)")
         return reason

@@ -118,6 +118,10 @@ class Elaborator(Resolver):
             instance.overrides = named  # type: ignore[attr-defined]
             pending: list[tuple[Scope, Any]] = []
             scope = instance.scope
+            # functions may be called (to size ports, say) above their declaration
+            for item in module.items or ():
+                if isinstance(item, vast.Function):
+                    scope.names[item.name] = FunctionDef(item.name, item, scope)
             for decl in _paramlist(module):
                 self._item(scope, decl, pending)
             for port in (module.portlist.ports if module.portlist else ()):
@@ -139,7 +143,8 @@ class Elaborator(Resolver):
         if isinstance(item, vast.Decl):
             self._declaration(scope, item, pending)
         elif isinstance(item, vast.Function):
-            scope.names[item.name] = FunctionDef(item.name, item, scope)
+            if not isinstance(scope.names.get(item.name), FunctionDef) or scope.parent is not None:
+                scope.names[item.name] = FunctionDef(item.name, item, scope)
         elif isinstance(item, vast.Task):
             self.note(f"task `{item.name}` declared; calls to it are not supported", item)
         elif isinstance(item, vast.GenerateStatement):

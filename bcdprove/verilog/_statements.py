@@ -139,6 +139,8 @@ class Frame:
                 raise self.design.error(f"unsupported construct `${stmt.syscall}`", stmt,
                                         UnsupportedConstruct)
             self.design.note_once(f"`${stmt.syscall}` ignored (no effect on the logic)", stmt)
+        elif isinstance(stmt, vast.DelayStatement):
+            self.design.note_once("delay ignored: the model holds the settled values", stmt)
         elif isinstance(stmt, vast.Disable):
             raise self.design.error("unsupported construct `disable`", stmt, UnsupportedConstruct)
         elif isinstance(stmt, vast.TaskCall):
@@ -152,6 +154,8 @@ class Frame:
                                     UnsupportedConstruct)
 
     def _assign(self, stmt: Any, nonblocking: bool) -> None:
+        if stmt.ldelay is not None or stmt.rdelay is not None:
+            self.design.note_once("delay ignored: the model holds the settled values", stmt)
         expressions = self.expressions
         targets = self.design.lvalue_parts(expressions, stmt.left.var, procedural=True)
         width = sum(t.width for t in targets)

@@ -14,6 +14,8 @@ from hypothesis import given, settings, strategies as st
 from bcdprove.model.node import Graph, evaluate
 from bcdprove.model.smt import Z3Encoder
 
+from tests.support.converters import buggy_double_dabble, division_by_ten, double_dabble
+
 from .random_dags import random_dag
 
 
@@ -89,3 +91,35 @@ def test_deep_chains_do_not_recurse():
         node = g.add(g.xor(node, g.const(k & 255, 8)), g.const(1, 8))
     encoder = Z3Encoder(z3.Context())
     assert encoder.term(node).size() == 8
+
+
+def _miter(builder, width):
+    """One graph: ``builder``'s digits against repeated division by ten, on the same input."""
+    g = Graph()
+    x, digits = builder(g, width)
+    _, reference = division_by_ten(g, width)
+    assert g.input("x", width) is x        # both builders read the same input leaf
+    differ = g.const(0, 1)
+    for mine, theirs in zip(digits, reference):
+        differ = g.or_(differ, g.ne(mine, theirs))
+    return x, digits, differ
+
+
+def test_shift_and_add_3_equals_division_by_ten_at_8_bits():
+    x, _, differ = _miter(double_dabble, 8)
+    encoder = Z3Encoder(z3.Context())
+    solver = z3.Solver(ctx=encoder.ctx)
+    solver.add(encoder.term(differ) == 1)
+    assert solver.check() == z3.unsat
+
+
+def test_wrong_threshold_gives_a_counterexample_that_replays():
+    x, digits, differ = _miter(buggy_double_dabble, 8)
+    encoder = Z3Encoder(z3.Context())
+    solver = z3.Solver(ctx=encoder.ctx)
+    solver.add(encoder.term(differ) == 1)
+    assert solver.check() == z3.sat
+    value = encoder.leaf_values(solver.model(), [x])[x.id]
+    shown = evaluate(digits, {x.id: value})
+    # Python str as the reference for the right digits.
+    assert shown != [int(c) for c in reversed(str(value).zfill(3))]

@@ -30,10 +30,8 @@ def stage_engine(options: EngineOptions):
         from .stages import StageEngine
     except ImportError:
         return None
-    try:
-        return StageEngine(options)
-    except TypeError:
-        return StageEngine()
+    # Its own defaults: none of the options above are about stage induction.
+    return StageEngine()
 
 
 def make_engine(name: str, options: EngineOptions | None = None):

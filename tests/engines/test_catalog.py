@@ -76,3 +76,10 @@ def test_proved_designs_pass_their_testbench_in_icarus(entry):
 def test_smt_agrees_with_catalog(entry):
     result = _check(entry, "smt", timeout=60)
     assert result.verdict.status == entry.expected
+
+
+@pytest.mark.parametrize("entry", DISPROVED, ids=lambda e: e.name)
+def test_random_disproves_catalog_bugs(entry):
+    result = _check(entry, "random")
+    assert result.verdict.status == "disproved"        # catalogue, from Icarus
+    assert result.verdict.counterexample.replayed

@@ -13,7 +13,10 @@ from bcdprove.engines.random_sim import corner_values
 from bcdprove.engines.registry import EngineOptions, make_engine
 from bcdprove.errors import BcdproveError
 from bcdprove.spec.bin2bcd import build_problem, decimal_digits
-from tests.spec.hand_models import packed_converter
+from bcdprove.checking import CheckResult
+from bcdprove.reports.testbench import write_testbench
+from tests.spec.hand_models import packed_converter, packed_verilog
+from tests.support.icarus import run_icarus
 
 ENGINES = ["random", "exhaustive", "smt", "auto"]
 SMALL = EngineOptions(random_vectors=1 << 12, hunt_vectors=1 << 10)
@@ -21,6 +24,14 @@ SMALL = EngineOptions(random_vectors=1 << 12, hunt_vectors=1 << 10)
 
 def _run(engine, problem, seconds=60.0):
     return make_engine(engine, SMALL).run(problem, Budget(seconds))
+
+
+def _assert_fails_in_icarus(problem, verdict, verilog: str) -> None:
+    """Icarus, running the design text through the generated test bench, shows the failure."""
+    result = CheckResult(problem.model, problem, verdict, verdict.engine, verdict.seconds)
+    x = verdict.counterexample.inputs[problem.input_ports[0]]
+    text = run_icarus([], "bcdprove_tb", verilog + write_testbench(result, limit=0))
+    assert f"bcdprove testbench: FAIL at input {x}:" in text
 
 
 def _assert_real_counterexample(problem, verdict):
@@ -52,6 +63,7 @@ def test_wrong_converter(engine, threshold):
     verdict = _run(engine, problem)
     assert verdict.status == DISPROVED
     _assert_real_counterexample(problem, verdict)
+    _assert_fails_in_icarus(problem, verdict, packed_verilog(10, 4, threshold=threshold))
 
 
 @pytest.mark.parametrize("engine", ENGINES)
@@ -60,6 +72,7 @@ def test_untied_enable_gives_counterexample_naming_it(engine):
     verdict = _run(engine, problem)
     assert verdict.status == DISPROVED
     assert verdict.counterexample.inputs["en"] == 0
+    _assert_fails_in_icarus(problem, verdict, packed_verilog(8, 3, enable=True))
     tied = build_problem(packed_converter(8, 3, enable=True), ties={"en": 1})
     assert _run(engine, tied).status == (UNKNOWN if engine == "random" else PROVED)
 
@@ -71,6 +84,8 @@ def test_unknown_value_hole_is_found(engine):
     assert verdict.status == DISPROVED
     assert verdict.counterexample.free_values
     _assert_real_counterexample(problem, verdict)
+    # Icarus shows x in the ones digit there, which the bench's !== counts as wrong
+    _assert_fails_in_icarus(problem, verdict, packed_verilog(8, 3, free_default=True))
 
 
 @pytest.mark.parametrize("engine", ["exhaustive", "smt", "auto"])
@@ -85,6 +100,7 @@ def test_max_input_excludes_the_failures(engine):
     verdict = _run(engine, at)
     assert verdict.status == DISPROVED
     assert verdict.counterexample.inputs["bin"] == first_bad
+    _assert_fails_in_icarus(at, verdict, packed_verilog(8, 3, threshold=6))
 
 
 def test_exhaustive_finds_the_smallest_failing_input():
@@ -92,6 +108,7 @@ def test_exhaustive_finds_the_smallest_failing_input():
     first_bad = next(v for v in range(256) if problem.evaluate(v) != decimal_digits(v, 3))
     verdict = _run("exhaustive", problem)
     assert verdict.counterexample.inputs["bin"] == first_bad
+    _assert_fails_in_icarus(problem, verdict, packed_verilog(8, 3, threshold=4))
 
 
 def test_exhaustive_refuses_past_its_limit():
@@ -120,6 +137,7 @@ def test_both_smt_forms_agree(form):
     verdict = engine.run(wrong, Budget())
     assert verdict.status == DISPROVED
     _assert_real_counterexample(wrong, verdict)
+    _assert_fails_in_icarus(wrong, verdict, packed_verilog(10, 4, threshold=4))
 
 
 def test_smt_form_is_checked():

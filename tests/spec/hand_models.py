@@ -71,9 +71,14 @@ def split_converter(width: int, names: list[str], top_width: int = 4) -> Model:
 
 
 def packed_verilog(width: int, digit_count: int, out_width: int | None = None,
-                   threshold: int = 5, enable: bool = False, top: str = "conv") -> str:
-    """Verilog-2005 text of :func:`packed_converter` (without ``free_default``)."""
+                   threshold: int = 5, enable: bool = False, free_default: bool = False,
+                   top: str = "conv") -> str:
+    """Verilog-2005 text of :func:`packed_converter`."""
     out_width = out_width or 4 * digit_count
+    hole = ""
+    if free_default:
+        # an x where the ones digit would be 9, like a case table with a 4'bx default
+        hole = "\n    if (work[3:0] == 4'd9) work[3:0] = 4'bxxxx;"
     en_port = ", input en" if enable else ""
     result = "en ? work[%d:0] : %d'd0" % (out_width - 1, out_width) if enable \
         else "work[%d:0]" % (out_width - 1)
@@ -87,7 +92,7 @@ module {top}(input [{width - 1}:0] bin{en_port}, output [{out_width - 1}:0] bcd)
       for (j = 0; j < {digit_count}; j = j + 1)
         if (work[4*j +: 4] >= {threshold}) work[4*j +: 4] = work[4*j +: 4] + 4'd3;
       work = {{work[{4 * digit_count - 2}:0], bin[i]}};
-    end
+    end{hole}
   end
   assign bcd = {result};
 endmodule

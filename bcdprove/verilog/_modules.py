@@ -67,7 +67,12 @@ class Elaborator(Resolver):
         for name, value in instance.parameters.items():
             self.model.parameters[name] = value.real if value.real is not None else value.integer
         for var in self.all_vars:
-            node = self.read(var)
+            if var.shared is not None:
+                self.note(f"`{var.name}` is assigned in several always blocks; outside them "
+                          "its value is unknown")
+                node = self.graph.free(var.width, f"{var.name}: assigned in several blocks")
+            else:
+                node = self.read(var)
             self.model.signals[var.name] = self._signal(var, node)
         for block, edges in self.clocked:
             self.model.registers.extend(run_clocked(self, block, edges))
@@ -445,7 +450,7 @@ class Elaborator(Resolver):
             for var in driven:
                 var.state = g.state(var.name, var.width)
                 self.add_driver(var, 0, var.width - 1, lambda var=var: var.state, item,
-                                "always block")
+                                "clocked always block")
             self.clocked.append((block, edges))
             return
         if any(s.type == "level" for s in sens):

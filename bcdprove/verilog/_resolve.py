@@ -116,6 +116,14 @@ class Resolver:
                 bit = max(lo, other.lo)
                 index = var.lsb + bit if var.msb >= var.lsb else var.lsb - bit
                 label = var.name if var.width == 1 else f"{var.name}[{index}]"
+                if var.is_variable and what == other.what == "always block":
+                    # Several combinational blocks may use one variable as scratch (a shared
+                    # `integer i` loop counter); only a read from outside them is ambiguous.
+                    var.shared = DesignError(
+                        f"`{label}` is driven twice: by the {other.what} at {other.loc} and by "
+                        f"the {what} at {loc}, and read outside them",
+                        loc.file if loc else None, loc.line if loc else None)
+                    continue
                 raise DesignError(f"`{label}` is driven twice: by the {other.what} at "
                                   f"{other.loc} and by the {what} here",
                                   loc.file if loc else None, loc.line if loc else None)
@@ -158,6 +166,8 @@ class Resolver:
             return g.extract(var.fixed, hi, lo)
         if var.state is not None:
             return g.extract(var.state, hi, lo)
+        if var.shared is not None:
+            raise var.shared
         pieces: list[Node] = []
         bit = hi
         ordered = sorted((d for d in var.drivers if d.lo <= hi and lo <= d.hi),

@@ -46,6 +46,7 @@ class Var:
     undriven: Optional[Node] = None
     node: Optional[Node] = None     # memoised full value
     direction: Optional[str] = None
+    shared: Optional[Any] = None    # DesignError to raise if read outside its several blocks
 
     def model_bit(self, index: int) -> int:
         """The model bit number (0 = least significant) of declared index ``index``."""

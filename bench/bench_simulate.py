@@ -83,7 +83,8 @@ def main() -> None:
         rows.append((name, gates, build, run, goal, correct))
     print(f"{'case':44} {'gates':>8} {'build s':>8} {'run s':>8} {'goal s':>7}  result")
     for name, gates, build, run, goal, correct in rows:
-        verdict = "wrong" if not correct else ("ok" if goal is None or build + run <= goal else "slow")
+        within = goal is None or build + run <= goal
+        verdict = "wrong" if not correct else "ok" if within else "slow"
         goal_text = f"{goal:.1f}" if goal is not None else "-"
         print(f"{name:44} {gates:8d} {build:8.2f} {run:8.2f} {goal_text:>7}  {verdict}")
 

@@ -158,7 +158,8 @@ class BitNetlist:
         return bits[0]
 
     # ternary ------------------------------------------------------------------------
-    def ternary(self, outputs: Sequence[int], leaf_modes: Sequence[str]) -> tuple["BitNetlist", list[int], list[int]]:
+    def ternary(self, outputs: Sequence[int],
+                leaf_modes: Sequence[str]) -> tuple["BitNetlist", list[int], list[int]]:
         """Dual-rail (value, unknown) form of this netlist for three-valued simulation.
 
         ``leaf_modes[k]`` says how leaf ``k`` is given: ``"known"`` (value planes only),
@@ -171,7 +172,8 @@ class BitNetlist:
         value: dict[int, int] = {FALSE: FALSE, TRUE: TRUE}
         unknown: dict[int, int] = {FALSE: FALSE, TRUE: FALSE}
         for signal in self._needed(outputs):
-            kind, a, b, c = self.kinds[signal], self.first[signal], self.second[signal], self.third[signal]
+            kind, a = self.kinds[signal], self.first[signal]
+            b, c = self.second[signal], self.third[signal]
             if kind == _LOAD:
                 mode = leaf_modes[a]
                 if mode == "known":

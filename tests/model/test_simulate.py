@@ -43,7 +43,8 @@ def test_pack_reduces_values_modulo_the_width():
 
 
 @pytest.mark.parametrize("start,lanes,width", [(0, 64, 6), (5, 100, 9), (1000, 3, 40),
-                                               (2**30 - 7, 50, 31), (0, 1, 1), (123, 777, 12)])
+                                               (2**30 - 7, 50, 31), (0, 1, 1), (123, 777, 12),
+                                               (7, 0, 5)])
 def test_counting_planes_are_consecutive_values(start, lanes, width):
     expected = [(start + j) % (1 << width) for j in range(lanes)]   # Python int reference
     assert unpack(counting_planes(start, lanes, width), lanes) == expected

@@ -9,7 +9,7 @@ import random
 import time
 
 from .base import DISPROVED, UNKNOWN, Budget, Verdict
-from .replay import LaneChecker
+from .replay import LaneChecker, shrink
 
 CHUNK = 1 << 14
 
@@ -89,8 +89,11 @@ class RandomEngine:
             passed += result.passed
             if result.counterexample is not None:
                 stats["vectors"] = passed + 1
+                found = shrink(checker, result.counterexample, budget)
+                if found is not result.counterexample:
+                    stats["shrunk_from"] = str(result.counterexample.inputs[problem.input_ports[0]])
                 return Verdict(DISPROVED, self.name, time.monotonic() - started,
-                               counterexample=result.counterexample,
+                               counterexample=found,
                                covered=f"{passed:,} vector{'' if passed == 1 else 's'} passed before the failing one",
                                stats=stats)
             if result.gave_up:

@@ -165,3 +165,15 @@ def test_corner_values():
         assert v in corners
     assert len(corners) == len(set(corners)) and max(corners) <= 255
     assert max(corner_values(8, 150)) == 150
+
+
+def test_shrink_keeps_a_real_failure_and_makes_it_smaller():
+    from bcdprove.engines.replay import LaneChecker, shrink
+    problem = build_problem(packed_converter(16, 5, threshold=6))
+    large = next(v for v in range(65535, 0, -1)
+                if problem.evaluate(v) != decimal_digits(v, 5))            # reference: Python str
+    found = problem.replay(large)
+    smaller = shrink(LaneChecker(problem), found)
+    x = smaller.inputs["bin"]
+    assert x < large and smaller.replayed
+    assert problem.evaluate(x) != decimal_digits(x, 5)                     # reference: Python str

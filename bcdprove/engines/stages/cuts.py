@@ -93,6 +93,7 @@ class ConeBuilder:
         # only the current one: their facts are proved, so reading them as fresh digits is sound.
         self._owners = owners if owners is not None else {n: cut for n in cut.facts}
         self._memo: dict[tuple[int, int, int], Node] = {}
+        self._through: dict[int, Optional[tuple[Node, int, int]]] = {}
 
     # public --------------------------------------------------------------------------------
     def whole(self, node: Node) -> Node:
@@ -148,11 +149,68 @@ class ConeBuilder:
         return self.cone.input(f"in{node.id}_{i}", 1)
 
     def _build(self, node: Node, hi: int, lo: int) -> Node:
+        # A chain of single-digit updates of one wide register passes every other bit
+        # through unchanged: jump down the chain to the update that touches [hi:lo] (or
+        # to a cut node), instead of copying each level.
+        while node.id not in self._owners:
+            through = self._pass_through(node)
+            if through is None or not (hi < through[1] or lo > through[2]):
+                break
+            node = through[0]
+        if (node.id, hi, lo) in self._memo:
+            return self._memo[(node.id, hi, lo)]
         owner = self._owners.get(node.id)
         if owner is not None and owner.stage <= self.cut.stage:
-            distance = self.cut.stage - owner.stage
-            return self._bits(lambda i: self._cut_bit(node, owner, distance, i), hi, lo)
+            return self._cut_slice(node, owner, self.cut.stage - owner.stage, hi, lo)
         return self._define(node, hi, lo)
+
+    def _cut_slice(self, node: Node, owner: Cut, distance: int, hi: int, lo: int) -> Node:
+        """A cut node's slice from its facts, in runs: a digit's bits as one slice of its
+        leaf, constant bits as one constant (most significant part first)."""
+        cone = self.cone
+        facts = owner.facts[node.id]
+        parts: list[Node] = []
+        i = hi
+        while i >= lo:
+            fact = facts[i]
+            j = i
+            if isinstance(fact, DigitBit) and not fact.negated:
+                while (j - 1 >= lo and isinstance(facts[j - 1], DigitBit)
+                       and facts[j - 1].digit == fact.digit and not facts[j - 1].negated
+                       and facts[j - 1].bit == facts[j].bit - 1):
+                    j -= 1
+                leaf = digit_leaf(cone, fact.digit, distance)
+                parts.append(cone.extract(leaf, fact.bit, facts[j].bit))
+            elif isinstance(fact, ConstBit):
+                value = fact.value
+                while j - 1 >= lo and isinstance(facts[j - 1], ConstBit):
+                    j -= 1
+                    value = (value << 1) | facts[j].value
+                parts.append(cone.const(value, i - j + 1))
+            else:
+                parts.append(self._cut_bit(node, owner, distance, i))
+            i = j - 1
+        return cone.concat(*parts)
+
+    def _pass_through(self, node: Node) -> Optional[tuple[Node, int, int]]:
+        """``(source, low, high)`` when ``node`` equals ``source`` outside bits high..low.
+
+        Recognised: a concatenation of aligned slices of one source around new bits, and a
+        multiplexer between such a concatenation and its source."""
+        if node.id in self._through:
+            return self._through[node.id]
+        found = None
+        if node.op == Op.CONCAT:
+            found = _concat_through(node)
+        elif node.op == Op.ITE:
+            then, other = node.args[1], node.args[2]
+            for updated, source in ((then, other), (other, then)):
+                inner = _concat_through(updated) if updated.op == Op.CONCAT else None
+                if inner is not None and inner[0] is source:
+                    found = inner
+                    break
+        self._through[node.id] = found
+        return found
 
     def _define(self, node: Node, hi: int, lo: int) -> Node:
         """``node[hi:lo]`` from the node's own operator and arguments."""
@@ -224,3 +282,23 @@ class ConeBuilder:
         if inside_hi >= lo:
             parts.append(self.slice(source, inside_hi + amount, lo + amount))
         return cone.concat(*parts)
+
+
+def _concat_through(node: Node) -> Optional[tuple[Node, int, int]]:
+    """For ``concat(s[a:b], new, s[c:d])`` with every slice of ``s`` at its own offset:
+    ``(s, low, high)`` of the bits that differ from ``s``; None otherwise."""
+    source = None
+    low, high = node.width, -1
+    offset = node.width
+    for part in node.args:
+        offset -= part.width
+        top = offset + part.width - 1
+        if (part.op == Op.EXTRACT and part.params[1] == offset
+                and (source is None or part.args[0] is source)
+                and part.args[0].width == node.width):
+            source = part.args[0]
+            continue
+        low, high = min(low, offset), max(high, top)
+    if source is None or high < 0:
+        return None
+    return source, low, high

@@ -127,14 +127,16 @@ def reference_planes(x_planes: list[int], width: int, lanes: int) -> list[list[t
 
 
 def _named_roots(problem) -> list[tuple[str, Node]]:
-    roots = []
-    seen = set()
+    """One (name, node) per named node of 4 bits or more, under its outermost name."""
+    best: dict[int, tuple[str, Node]] = {}
     for name, signal in problem.model.signals.items():
         node = signal.node
-        if node.width >= 4 and node.op != Op.CONST and (name, node.id) not in seen:
-            seen.add((name, node.id))
-            roots.append((name, node))
-    return roots
+        if node.width < 4 or node.op == Op.CONST:
+            continue
+        known = best.get(node.id)
+        if known is None or nesting(name) < nesting(known[0]):
+            best[node.id] = (name, node)
+    return list(best.values())
 
 
 def mine(problem, lanes_seed: int = 2026) -> Mining:
@@ -174,6 +176,7 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
         for j, key in enumerate(digits):
             wanted.setdefault(key, []).append((s, j))
     candidates = [[[] for _ in digits] for digits in reference]
+    first_planes = {key[0] for key in wanted}
     full = mask(lanes)
 
     def offer(node: Node, name: str, tier: int, complemented: bool = False) -> None:
@@ -182,6 +185,8 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
             value = [~p & full for p in value]
         blind = unknown[node.id]
         for low in range(node.width - 3):
+            if value[low] not in first_planes:
+                continue
             key = tuple(value[low:low + 4])
             hits = wanted.get(key)
             if hits is None or any(blind[low:low + 4]):

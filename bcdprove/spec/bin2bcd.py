@@ -281,8 +281,8 @@ def _parse_ties(model: Model, ties: Mapping[str, int] | None) -> dict[str, int]:
     return result
 
 
-def _split_digits(model: Model, output_ports: list[str], msd_first: bool,
-                  numbered_msd_first: bool) -> tuple[list[Node], list[str]]:
+def _split_digits(model: Model, output_ports: list[str],
+                  msd_first: bool) -> tuple[list[Node], list[str]]:
     """Cut the output ports into 4-bit digit nodes, least significant first."""
     graph = model.graph
     digits: list[Node] = []
@@ -337,13 +337,13 @@ def build_problem(model: Model, inputs: list[str] | None = None, outputs: list[s
                             f"converters is not supported yet, only combinational ones")
     tie_values = _parse_ties(model, ties)
     input_name, input_reason = choose_input(model, inputs, tie_values)
-    output_names, output_reason, numbered_msd = choose_outputs(model, outputs, msd_first)
+    output_names, output_reason, _ = choose_outputs(model, outputs, msd_first)
     in_port = model.port(input_name)
     width = in_port.width
     if max_input is not None and not 0 <= max_input <= mask(width):
         raise BcdproveError(f"--max-input {max_input} is outside the {width}-bit input "
                             f"`{input_name}` (0 .. {mask(width)})")
-    digits, sources = _split_digits(model, output_names, msd_first, numbered_msd)
+    digits, sources = _split_digits(model, output_names, msd_first)
     reasons = [input_reason, output_reason]
     if tie_values:
         mapping = {}

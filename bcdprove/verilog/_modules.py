@@ -21,6 +21,7 @@ from ._expressions import Expressions
 from ._resolve import ProceduralBlock, Resolver
 from ._scope import FunctionDef, Memory, Parameter, Scope, Var
 from ._targets import lvalue_parts
+from ._templates import Template, _Stamp, stampable
 
 _GATES = {"and", "or", "nand", "nor", "xor", "xnor", "not", "buf"}
 _GENERATE_LIMIT = 65536
@@ -49,6 +50,9 @@ class Elaborator(Resolver):
         self.all_vars: list[Var] = []
         self.clocked: list[tuple[ProceduralBlock, list]] = []
         self.depth = 0
+        self.templates: dict[tuple, Template] = {}
+        self.stamps: list[Any] = []
+        self._stampable: dict[str, bool] = {}
 
     # --------------------------------------------------------------- entry
     def elaborate(self, top: str, parameters: Mapping[str, int]) -> None:
@@ -74,6 +78,9 @@ class Elaborator(Resolver):
             else:
                 node = self.read(var)
             self.model.signals[var.name] = self._signal(var, node)
+        for stamp in self.stamps:
+            for probe in stamp.probes():
+                self.model.signals[probe.name] = probe
         for block, edges in self.clocked:
             self.model.registers.extend(run_clocked(self, block, edges))
         for name in instance.port_names:
@@ -99,13 +106,17 @@ class Elaborator(Resolver):
 
     # --------------------------------------------------------------- instances
     def instantiate(self, module: vast.ModuleDef, prefix: str, named: dict[str, Parameter],
-                    positional: list[Parameter], is_top: bool, node: Any) -> _Instance:
+                    positional: list[Parameter], is_top: bool, node: Any,
+                    placeholders: bool = False) -> _Instance:
+        """Elaborate one instance of ``module``; with ``placeholders`` its inputs are held at
+        placeholder leaves (a template, see _templates)."""
         if self.depth >= _DEPTH_LIMIT:
             raise self.error(f"module `{module.name}` instantiates itself (hierarchy deeper "
                              f"than {_DEPTH_LIMIT})", node)
         self.depth += 1
         try:
             instance = _Instance(module, prefix, is_top)
+            instance.placeholders = placeholders  # type: ignore[attr-defined]
             if positional:
                 order = [p.name for d in _paramlist(module) for p in d.list
                          if type(p) is vast.Parameter] or self._overridable(module)
@@ -248,6 +259,8 @@ class Elaborator(Resolver):
         if instance.is_top and direction == "input":
             var.fixed = self.graph.input(var.name, var.width)
             var.direction = "input"
+        elif getattr(instance, "placeholders", False) and direction == "input":
+            var.fixed = self.graph.input(f"template input {var.name}", var.width)
         return var
 
     def _variable(self, scope: Scope, declared: Any, port: bool = False) -> Any:
@@ -274,7 +287,8 @@ class Elaborator(Resolver):
                     existing.msb, existing.lsb = msb, lsb
                     existing.width = abs(msb - lsb) + 1
                     if existing.fixed is not None:
-                        existing.fixed = self.graph.input(existing.name, existing.width)
+                        existing.fixed = self.graph.input(existing.fixed.params[0],
+                                                          existing.width)
                 return existing
             raise self.error(f"`{name}` is declared twice", declared)
         if existing is not None:
@@ -483,11 +497,24 @@ class Elaborator(Resolver):
         if named and positional:
             raise self.error("parameter overrides mix named and positional forms", inst)
         prefix = f"{scope.prefix}{inst.name}."
+        if module.name not in self._stampable:
+            self._stampable[module.name] = stampable(self.modules, module)
+        if self._stampable[module.name]:
+            key = (module.name, tuple(sorted(named.items())), tuple(positional))
+            template = self.templates.get(key)
+            if template is None:
+                template = self.templates[key] = Template(self, module, named, positional,
+                                                          prefix, inst)
+            stamp = _Stamp(template, prefix)
+            self.stamps.append(stamp)
+            scope.children[inst.name] = stamp.scope
+            self._connect(scope, inst, stamp)
+            return
         child = self.instantiate(module, prefix, named, positional, False, inst)
         scope.children[inst.name] = child.scope
         self._connect(scope, inst, child)
 
-    def _connect(self, scope: Scope, inst: vast.Instance, child: _Instance) -> None:
+    def _connect(self, scope: Scope, inst: vast.Instance, child: Any) -> None:
         connections: dict[str, Any] = {}
         arguments = list(inst.portlist or ())
         if arguments and all(a.portname is None for a in arguments):

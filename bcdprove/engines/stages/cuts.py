@@ -154,9 +154,22 @@ class ConeBuilder:
         # to a cut node), instead of copying each level.
         while node.id not in self._owners:
             through = self._pass_through(node)
-            if through is None or not (hi < through[1] or lo > through[2]):
+            if through is None:
                 break
-            node = through[0]
+            low, high = through[1], through[2]
+            if hi < low or lo > high:
+                node = through[0]
+                continue
+            if lo < low or hi > high:
+                # Wider than the update: split at its edges so each side can jump on.
+                parts = []
+                if hi > high:
+                    parts.append(self.slice(node, hi, high + 1))
+                parts.append(self.slice(node, min(hi, high), max(lo, low)))
+                if lo < low:
+                    parts.append(self.slice(node, low - 1, lo))
+                return self.cone.concat(*parts)
+            break
         if (node.id, hi, lo) in self._memo:
             return self._memo[(node.id, hi, lo)]
         owner = self._owners.get(node.id)

@@ -199,12 +199,26 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
                 offered[(s, j, slot)] = Candidate(node, low, name, tier, complemented)
 
     offered: dict[tuple, Candidate] = {}     # one candidate per slice, under its outermost name
-    for name, node in named:
+
+    def unmatched() -> bool:
+        found = {(s, j) for s, j, _ in offered}
+        return any((s, j) not in found for s, digits in enumerate(reference)
+                   for j in range(len(digits)))
+
+    # Outer names and digit-sized nodes first; probes from inside inner loops (many, and
+    # rarely a complete stage) and complements only while some digit has no candidate.
+    outer = [(name, node) for name, node in named if nesting(name) == 0]
+    inner = [(name, node) for name, node in named if nesting(name) > 0]
+    for name, node in outer:
         offer(node, name, 0)
     for node in unnamed:
         offer(node, f"n{node.id}", 1)
-    for node in unnamed:
-        offer(node, f"~n{node.id}", 2, complemented=True)
+    if unmatched():
+        for name, node in inner:
+            offer(node, name, 0)
+    if unmatched():
+        for node in unnamed:
+            offer(node, f"~n{node.id}", 2, complemented=True)
     for (s, j, _), candidate in offered.items():
         candidates[s][j].append(candidate)
     for digits in candidates:

@@ -208,3 +208,35 @@ endmodule
     assert model.signals["x"].kind == "port"
     assert [p.name for p in model.ports] == ["x", "z"]
     assert model.port("x").node.op == Op.INPUT
+
+
+CELL = """module cell(input [3:0] d, output [3:0] q, output u);
+  reg [3:0] t;
+  integer k;
+  always @* begin
+    t = 0;
+    for (k = 0; k < 4; k = k + 1) t[k] = d[3 - k];
+  end
+  assign q = t;
+  assign u = 1'bx;
+endmodule
+"""
+
+
+def test_repeated_instances_keep_their_own_values_names_and_probes(tmp_path):
+    model = elaborate_text(tmp_path, CELL + """module dut(input [7:0] a, output [7:0] y, output [1:0] z);
+  genvar i;
+  for (i = 0; i < 2; i = i + 1) begin : lane
+    cell c (.d(a[4*i +: 4]), .q(y[4*i +: 4]), .u(z[i]));
+  end
+endmodule
+""")
+    assert outputs(model, a=0x1E)["y"] == 0x87           # each nibble bit-reversed
+    assert signal(model, "lane[1].c.q", a=0x1E) == 0x8
+    assert signal(model, "lane[0].c.t@k=0", a=0x1E) == 0x1   # t[0] = d[3] of 4'b1110
+    assert signal(model, "lane[1].c.t@k=0", a=0x1E) == 0x0   # t[0] = d[3] of 4'b0001
+    # the x of each instance is its own unknown: z can be 01 (not only 00 or 11)
+    from bcdprove.model import Op, evaluate, leaves
+    free = [leaf for leaf in leaves([model.port("z").node]) if leaf.op == Op.FREE]
+    assert len(free) == 2
+    assert evaluate([model.port("z").node], {free[0].id: 1, free[1].id: 0})[0] in (1, 2)

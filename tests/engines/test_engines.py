@@ -177,3 +177,22 @@ def test_shrink_keeps_a_real_failure_and_makes_it_smaller():
     x = smaller.inputs["bin"]
     assert x < large and smaller.replayed
     assert problem.evaluate(x) != decimal_digits(x, 5)                     # reference: Python str
+
+
+def test_unknowns_the_simulation_cannot_settle_make_exhaustive_stop_not_guess(monkeypatch):
+    # digit 0 OR bit 2 of o*o for odd o: always digit 0, since an odd square is 1 modulo 8
+    # (elementary number theory), but three-valued simulation leaves that bit unknown, so
+    # every lane where digit 0 has bit 2 clear needs z3
+    from bcdprove.engines import replay
+    monkeypatch.setattr(replay, "UNKNOWN_LANE_LIMIT", 16)     # keep the z3 calls few
+    model = packed_converter(10, 4)
+    graph = model.graph
+    odd = graph.or_(graph.free(8, "test: an unknown value that cancels"), graph.const(1, 8))
+    square_bit = graph.extract(graph.mul(odd, odd), 2, 2)
+    problem = build_problem(model)
+    problem.digits[0] = graph.or_(problem.digits[0],
+                                  graph.concat(graph.zero(1), square_bit, graph.zero(2)))
+    verdict = _run("exhaustive", problem)
+    assert verdict.status == UNKNOWN and "unknown values" in verdict.reason
+    assert verdict.stats["inputs"] >= 16
+    assert _run("smt", problem).status == PROVED

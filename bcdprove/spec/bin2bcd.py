@@ -333,8 +333,10 @@ def build_problem(model: Model, inputs: list[str] | None = None, outputs: list[s
     """
     if model.is_clocked:
         names = ", ".join(r.name for r in model.registers[:4])
+        first = model.registers[0].loc
         raise BcdproveError(f"module `{model.top}` has registers ({names}); checking clocked "
-                            f"converters is not supported yet, only combinational ones")
+                            f"converters is not supported yet, only combinational ones",
+                            *((first.file, first.line) if first else ()))
     tie_values = _parse_ties(model, ties)
     input_name, input_reason = choose_input(model, inputs, tie_values)
     output_names, output_reason, _ = choose_outputs(model, outputs, msd_first)

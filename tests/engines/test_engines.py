@@ -7,6 +7,7 @@ checked against Python's int/str and replayed on the model.
 from __future__ import annotations
 
 import pytest
+from hypothesis import given, settings, strategies as st
 
 from bcdprove.engines.base import DISPROVED, PROVED, UNKNOWN, Budget
 from bcdprove.engines.random_sim import corner_values
@@ -196,3 +197,19 @@ def test_unknowns_the_simulation_cannot_settle_make_exhaustive_stop_not_guess(mo
     assert verdict.status == UNKNOWN and "unknown values" in verdict.reason
     assert verdict.stats["inputs"] >= 16
     assert _run("smt", problem).status == PROVED
+
+
+@settings(max_examples=12, deadline=None)
+@given(width=st.integers(min_value=3, max_value=9), threshold=st.integers(min_value=3, max_value=8))
+def test_engines_agree_with_brute_force(width, threshold):
+    digits = len(str(2 ** width - 1))
+    problem = build_problem(packed_converter(width, digits, threshold=threshold))
+    wrong = [v for v in range(2 ** width)
+             if problem.evaluate(v) != decimal_digits(v, digits)]         # reference: Python str
+    for engine in ENGINES:
+        verdict = _run(engine, problem)
+        if wrong:
+            assert verdict.status == DISPROVED
+            assert verdict.counterexample.inputs["bin"] in wrong
+        else:
+            assert verdict.status == (UNKNOWN if engine == "random" else PROVED)

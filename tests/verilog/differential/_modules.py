@@ -18,17 +18,20 @@ _FEATURES = ("always_if_case", "always_loop", "casez", "function", "generate_for
              "generate_if", "submodule", "nonblocking", "concat_left", "wire_chain")
 
 
-def module_case(rng: random.Random, name: str, case_seed: str, x_campaign: bool) -> Case:
+def module_case(rng: random.Random, name: str, case_seed: str, x_campaign: bool,
+                avoid: frozenset = frozenset()) -> Case:
     inputs = random_inputs(rng, rng.randint(2, 4), offset_ranges=True)
-    module = _Module(rng, name, inputs, x_campaign)
+    module = _Module(rng, name, inputs, x_campaign, avoid)
     for feature in rng.sample(_FEATURES, rng.randint(1, 3)):
         getattr(module, "_" + feature)()
     return module.finish(case_seed)
 
 
 class _Module:
-    def __init__(self, rng: random.Random, name: str, inputs: list[Operand], x_campaign: bool):
+    def __init__(self, rng: random.Random, name: str, inputs: list[Operand], x_campaign: bool,
+                 avoid: frozenset):
         self.rng = rng
+        self.avoid = avoid
         self.name = name
         self.inputs = inputs
         self.x = x_campaign
@@ -45,7 +48,8 @@ class _Module:
 
     def maker(self, pool=None, extras=()) -> ExpressionMaker:
         return ExpressionMaker(self.rng, pool if pool is not None else self.inputs + self.values,
-                               allow_x=self.x, extras=extras, narrow_division=True)
+                               allow_x=self.x, extras=extras, narrow_division=True,
+                               avoid=self.avoid)
 
     def expr(self, depth=None, pool=None, extras=(), reads_signal=False) -> str:
         """A new expression site.

@@ -46,6 +46,7 @@ class Finding:
     model: str = ""           # the model's bits, x where unknown
     detail: str = ""
     minimised: Optional[Case] = None
+    minimised_outputs: dict = field(default_factory=dict)   # output -> (Icarus bits, model bits)
 
     @property
     def signature(self) -> tuple:
@@ -64,6 +65,9 @@ class Finding:
         shown = self.minimised or self.case
         lines.append("  minimised:" if self.minimised else "  text:")
         lines.append("    " + shown.text().rstrip().replace("\n", "\n    "))
+        for name, (icarus, model) in self.minimised_outputs.items():
+            mark = "" if icarus == model else "   <- differs"
+            lines.append(f"  minimised {name}: Icarus {icarus}  model {model}{mark}")
         return "\n".join(lines)
 
 
@@ -300,14 +304,15 @@ def run_cases(cases: Sequence[Case], vector_count: int, x_campaign: bool = False
 
 
 def run_campaign(seed: int | str, count: int, x_campaign: bool = False, vector_count: int = 6,
-                 batch: int = 50, start: int = 0, minimise: bool = True) -> CampaignResult:
+                 batch: int = 50, start: int = 0, minimise: bool = True,
+                 avoid: frozenset = frozenset()) -> CampaignResult:
     """Generate cases ``start .. start+count-1`` of campaign ``seed`` and run them."""
-    cases = [generate_case(seed, i, x_campaign) for i in range(start, start + count)]
+    cases = [generate_case(seed, i, x_campaign, avoid) for i in range(start, start + count)]
     result = run_cases(cases, vector_count, x_campaign, batch)
     if minimise:
         for finding in result.findings:
             if finding.kind not in ("icarus-rejected", "icarus-x"):
-                finding.minimised = shrink(finding, x_campaign)
+                minimise_finding(finding, x_campaign)
     return result
 
 
@@ -344,6 +349,16 @@ def shrink(finding: Finding, x_campaign: bool = False, rounds: int = 60, batch: 
             break
         current = smaller[0]
     return current
+
+
+def minimise_finding(finding: Finding, x_campaign: bool = False) -> None:
+    """Shrink ``finding`` and record both sides' outputs of the minimised case."""
+    finding.minimised = shrink(finding, x_campaign)
+    if finding.kind != "reader-error" and finding.vector:
+        try:
+            finding.minimised_outputs = replay(finding.minimised, finding.vector, x_campaign)
+        except Exception as error:  # the record is for people; never lose the finding over it
+            finding.minimised_outputs = {"?": (str(error)[:200], "")}
 
 
 def environment_seed() -> Optional[int]:

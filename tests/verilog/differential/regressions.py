@@ -1,0 +1,108 @@
+"""Every disagreement the differential campaign found, minimised, with Icarus's value.
+
+Each entry is a module (ports in ANSI form, ranges written out), one input vector and the
+bits Icarus Verilog 11 prints for each output (most significant first), cross-checked with
+the IEEE 1364-2005 clause named.  ``reader_bug`` names the defect while it is open: the test
+of that entry is then an expected failure (strict, so a fix shows up as an unexpected pass,
+and the mark must be removed), and the campaigns leave the construct out (``avoid``) so
+they keep testing everything else.
+"""
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from typing import Optional
+
+from .generator import Case, Port
+
+
+@dataclass(frozen=True)
+class Regression:
+    name: str
+    text: str                       # one module named ``top``
+    vector: dict
+    expected: dict                  # output name -> Icarus's bits
+    source: str                     # where the expected value comes from, besides Icarus
+    reader_bug: Optional[str] = None
+    avoid: tuple = ()               # generator construct tags that reach this bug
+
+    def case(self) -> Case:
+        """The entry as a generated-style case (so the harness can run it)."""
+        inputs, outputs = [], []
+        for direction, signed, msb, lsb, name in _PORT.findall(self.text):
+            port = Port(name, abs(int(msb) - int(lsb)) + 1, bool(signed), int(msb), int(lsb))
+            (inputs if direction == "input" else outputs).append(port)
+        top = re.search(r"module\s+(\w+)", self.text).group(1)
+        return Case(top, self.text, (), tuple(inputs), tuple(outputs), f"regression:{self.name}")
+
+
+_PORT = re.compile(r"(input|output)( signed)?\s*\[(-?\d+):(-?\d+)\]\s*(\w+)")
+
+
+REGRESSIONS = [
+    Regression(
+        "unary_reduction_xnor_caret_tilde",
+        "module reg_xnor1(input [3:0] a, output [0:0] y, output [0:0] z);\n"
+        "  assign y = ^~a;\n"
+        "  assign z = ~^a;\n"
+        "endmodule\n",
+        {"a": 0b0011},
+        {"y": "1", "z": "1"},
+        "IEEE 1364-2005 clause 5.1.11 and table 5-19: ^~ and ~^ are both reduction XNOR; "
+        "two 1 bits give 1",
+        reader_bug="unary ^~ is read as reduction XOR (~^ is right)",
+        avoid=("unary-caret-tilde",),
+    ),
+    Regression(
+        "unary_reduction_xnor_of_parameter",
+        "module reg_xnor2(input [0:0] a, output [3:0] y);\n"
+        "  localparam P = 7;\n"
+        "  assign y = (^~P) ^ a;\n"
+        "endmodule\n",
+        {"a": 0},
+        {"y": "0000"},
+        "IEEE 1364-2005 clause 5.1.11: reduction XNOR of 32-bit 7 (three 1 bits) is 0",
+        reader_bug="unary ^~ is read as reduction XOR (~^ is right)",
+        avoid=("unary-caret-tilde",),
+    ),
+    Regression(
+        "shift_amount_holding_a_division",
+        "module reg_shiftdiv(input [3:0] a, input [3:0] b, input [3:0] c, output [3:0] y);\n"
+        "  assign y = a << (b / c);\n"
+        "endmodule\n",
+        {"a": 3, "b": 2, "c": 1},
+        {"y": "1100"},
+        "IEEE 1364-2005 clause 5.1.12: 3 << (2 / 1) = 12; the divisor is not zero, so "
+        "nothing is x (clause 5.1.5)",
+        reader_bug="a shift whose amount contains / or % is modelled as wholly unknown, "
+                   "even when the divisor is not zero",
+        avoid=("division-in-amount",),
+    ),
+    Regression(
+        "shift_amount_holding_a_guarded_modulus",
+        "module reg_shiftmod(input [3:0] a, input [3:0] b, input [3:0] c, output [3:0] y);\n"
+        "  assign y = a << (b % (c | 1'b1));\n"
+        "endmodule\n",
+        {"a": 3, "b": 2, "c": 2},
+        {"y": "1100"},
+        "IEEE 1364-2005 clause 5.1.12: 3 << (2 % 3) = 12; an odd divisor is never zero",
+        reader_bug="a shift whose amount contains / or % is modelled as wholly unknown",
+        avoid=("division-in-amount",),
+    ),
+    Regression(
+        "bit_select_index_holding_a_division",
+        "module reg_seldiv(input [3:0] a, input [3:0] b, input [3:0] c, output [0:0] y);\n"
+        "  assign y = a[b / c];\n"
+        "endmodule\n",
+        {"a": 3, "b": 2, "c": 3},
+        {"y": "1"},
+        "IEEE 1364-2005 clause 5.2.1: a[2 / 3] is a[0] = 1 (in range, divisor not zero)",
+        reader_bug="a select whose index contains / or % is modelled as unknown",
+        avoid=("division-in-amount",),
+    ),
+]
+
+
+def avoided_constructs() -> frozenset:
+    """Generator tags of every construct that reaches an open reader bug."""
+    return frozenset(tag for r in REGRESSIONS if r.reader_bug for tag in r.avoid)

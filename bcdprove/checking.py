@@ -59,9 +59,10 @@ def check(files: Sequence[str], top: str, *, parameters: Mapping[str, int] | Non
     """
     from .verilog import read_design
 
+    started = time.monotonic()
     model = read_design(list(files), top, dict(parameters or {}), include_dirs=list(include_dirs),
                         defines=dict(defines or {}))
-    result = check_model(model, **options)
+    result = check_model(model, started=started, **options)
     result.overrides = dict(parameters or {})
     return result
 
@@ -71,19 +72,21 @@ def check_model(model: Model, *, inputs: str | Sequence[str] | None = None,
                 max_input: int | None = None, ties: Mapping[str, int] | None = None,
                 engine: str = "auto", timeout: float | None = None, exhaustive_limit: int = 24,
                 random_vectors: int = 1 << 20, seed: int = 1,
-                smt_form: str = "multiply") -> CheckResult:
+                smt_form: str = "multiply", started: float | None = None) -> CheckResult:
     """Check ``model`` against the binary-to-BCD specification with engine ``engine``.
 
-    ``timeout`` (seconds) bounds the whole check, both verdicts included; running out gives
-    unknown with what was covered.  Other options: see EngineOptions and build_problem.
+    ``timeout`` (seconds) bounds the whole check, both verdicts included, counted from
+    ``started`` (a ``time.monotonic()`` reading, e.g. before the design was read; default:
+    now); running out gives unknown with what was covered.  Other options: see
+    EngineOptions and build_problem.
     """
-    started = time.monotonic()
+    started = time.monotonic() if started is None else started
     problem = build_problem(model, inputs=_as_list(inputs), outputs=_as_list(outputs),
                             msd_first=msd_first, max_input=max_input, ties=ties)
     options = EngineOptions(exhaustive_limit=exhaustive_limit, random_vectors=random_vectors,
                             seed=seed, smt_form=smt_form)
     runner = make_engine(engine, options)
-    budget = Budget(timeout)
+    budget = Budget(timeout, start=started)
     digits_check = None
     if problem.fits():
         verdict = runner.run(problem, budget)

@@ -5,6 +5,7 @@ printed by the command line's entry point), 3 unknown.
 """
 from __future__ import annotations
 
+import time
 from typing import List, Optional
 
 import typer
@@ -74,6 +75,7 @@ def check_command(
     if exhaustive_limit < 0 or exhaustive_limit > 40:
         raise BcdproveError(f"--exhaustive-limit {exhaustive_limit}: choose 0 .. 40 bits")
     limit = parse_number(max_input, "--max-input") if max_input is not None else None
+    started = time.monotonic()          # --timeout counts reading the design too
     model = opt.read(files, top, param, include_dir, define)
     from ..checking import check_model
 
@@ -81,7 +83,8 @@ def check_command(
                          msd_first=msd_first, max_input=limit,
                          ties=parse_assignments(tie or [], "--tie"), engine=engine,
                          timeout=timeout, exhaustive_limit=exhaustive_limit,
-                         random_vectors=vectors, seed=seed, smt_form=smt_form)
+                         random_vectors=vectors, seed=seed, smt_form=smt_form,
+                         started=started)
     result.overrides = parse_assignments(param or [], "--param")
     if junit:
         from ..reports.junit import check_junit

@@ -103,6 +103,7 @@ def check_report(result) -> str:
                               f"{problem.capacity():,}"}.get(check.status,
                                                               "the digits present were not decided")
         lines.append(f"{'':<12}{summary}")
+    lines.append(f"{'time':<12}{result.seconds:.2f} s in all")
     for note in result.notes:
         lines.append(f"{'note':<12}{note}")
     if verdict.counterexample is not None:

@@ -81,9 +81,9 @@ def write_testbench(result, limit: int = 64) -> str:
     connections = ", ".join(f".{p.name}({p.name})" for p in model.ports
                             if p.direction in ("input", "output"))
     lines.append(f"  {model.top}{params} dut ({connections});")
-    lines.append("  integer vectors;")
+    lines.append("  integer bcdprove_vectors;   // prefixed: a design port may be called vectors")
     lines.append("  initial begin")
-    lines.append("    vectors = 0;")
+    lines.append("    bcdprove_vectors = 0;")
     for name, value in problem.ties.items():
         lines.append(f"    {name} = {model.port(name).width}'d{value};")
     for x, others in _vectors(result, limit):
@@ -107,8 +107,8 @@ def write_testbench(result, limit: int = 64) -> str:
                      f'{want}, got {shown}", {actual});')
         lines.append("      $finish;")
         lines.append("    end")
-        lines.append("    vectors = vectors + 1;")
-    lines.append('    $display("bcdprove testbench: PASS %0d vectors", vectors);')
+        lines.append("    bcdprove_vectors = bcdprove_vectors + 1;")
+    lines.append('    $display("bcdprove testbench: PASS %0d vectors", bcdprove_vectors);')
     lines.append("    $finish;")
     lines.append("  end")
     lines.append("endmodule")

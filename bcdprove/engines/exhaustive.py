@@ -57,9 +57,7 @@ class ExhaustiveEngine:
             if result.gave_up:
                 return Verdict(UNKNOWN, self.name, time.monotonic() - started,
                                covered=f"{done + result.passed:,} of {total:,} inputs right",
-                               reason=f"more than {checker.settled_total} inputs give outputs that "
-                                      f"depend on unknown values (untied inputs or x); tie the "
-                                      f"inputs with --tie or use --engine smt",
+                               reason=result.stop_reason,
                                stats={"inputs": done + result.passed})
             done += count
         return Verdict(PROVED, self.name, time.monotonic() - started,

@@ -97,7 +97,7 @@ class RandomEngine:
                                covered=f"{passed:,} vector{'' if passed == 1 else 's'} passed before the failing one",
                                stats=stats)
             if result.gave_up:
-                stopped = "too many vectors depend on unknown values to settle one by one"
+                stopped = result.stop_reason
                 break
         stats["vectors"] = passed
         stats["settled_unknown_lanes"] = checker.settled_total

@@ -13,6 +13,7 @@ from dataclasses import dataclass, field
 from typing import Sequence
 
 from ..model.node import Op, mask
+from ..spec.bin2bcd import ReplayUndecided
 from .base import Counterexample
 
 # Unknown lanes cost one z3 query each; past this many in one check, stop and say so.
@@ -26,7 +27,8 @@ class BatchResult:
     passed: int = 0
     counterexample: Counterexample | None = None
     settled_unknown: int = 0              # lanes with unknown results settled right by z3
-    gave_up: bool = False                 # too many unknown lanes to settle one by one
+    gave_up: bool = False                 # stopped before the end of the batch: see stop_reason
+    stop_reason: str = ""
 
 
 @dataclass
@@ -81,10 +83,20 @@ class LaneChecker:
                 if self.settled_total >= UNKNOWN_LANE_LIMIT:
                     batch.gave_up = True
                     batch.passed = lane
+                    batch.stop_reason = (
+                        f"more than {UNKNOWN_LANE_LIMIT} inputs give outputs that depend on "
+                        f"unknown values (untied inputs or x); tie the inputs with --tie or use "
+                        f"--engine smt")
                     return batch
                 self.settled_total += 1
                 batch.settled_unknown += 1
-            found = self.problem.replay(value_of(lane))
+            try:
+                found = self.problem.replay(value_of(lane))
+            except ReplayUndecided as undecided:
+                batch.gave_up = True
+                batch.passed = lane
+                batch.stop_reason = str(undecided)
+                return batch
             if found is not None:
                 batch.counterexample = found
                 batch.passed = lane

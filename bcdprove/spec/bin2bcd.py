@@ -20,6 +20,11 @@ from ..model.node import Node, Op, apply_op, leaves, mask, substitute, topologic
 from .ports import choose_input, choose_outputs
 
 
+class ReplayUndecided(Exception):
+    """z3 could not say whether some choice of unknown values makes the digits wrong at an
+    input; the caller must not count that input as right (engines turn this into unknown)."""
+
+
 def decimal_digits(value: int, count: int) -> list[int]:
     """The ``count`` lowest decimal digits of ``value``, least significant first (from ``str``)."""
     text = str(value)[::-1]
@@ -262,7 +267,11 @@ class Bin2BcdProblem:
                 solver.add(encoder.term(by_id[leaf_id]) == value)
         expected = self.expected_digits(x)
         solver.add(z3.Or(*[encoder.term(d) != e for d, e in zip(self.digits, expected)]))
-        if solver.check() != z3.sat:
+        answer = solver.check()
+        if answer == z3.unknown:
+            raise ReplayUndecided(f"the solver could not settle input {x} with its unknown "
+                                  f"values: {solver.reason_unknown()}")
+        if answer != z3.sat:
             return None
         values = dict(given)
         values.update(encoder.leaf_values(solver.model(), unchosen))

@@ -180,12 +180,9 @@ def test_shrink_keeps_a_real_failure_and_makes_it_smaller():
     assert problem.evaluate(x) != decimal_digits(x, 5)                     # reference: Python str
 
 
-def test_unknowns_the_simulation_cannot_settle_make_exhaustive_stop_not_guess(monkeypatch):
-    # digit 0 OR bit 2 of o*o for odd o: always digit 0, since an odd square is 1 modulo 8
-    # (elementary number theory), but three-valued simulation leaves that bit unknown, so
-    # every lane where digit 0 has bit 2 clear needs z3
-    from bcdprove.engines import replay
-    monkeypatch.setattr(replay, "UNKNOWN_LANE_LIMIT", 16)     # keep the z3 calls few
+def _cancelling_unknown_problem():
+    """A right converter whose digit 0 is ORed with a bit that is always 0 but that
+    three-valued simulation cannot pin down (see the test below)."""
     model = packed_converter(10, 4)
     graph = model.graph
     odd = graph.or_(graph.free(8, "test: an unknown value that cancels"), graph.const(1, 8))
@@ -193,6 +190,16 @@ def test_unknowns_the_simulation_cannot_settle_make_exhaustive_stop_not_guess(mo
     problem = build_problem(model)
     problem.digits[0] = graph.or_(problem.digits[0],
                                   graph.concat(graph.zero(1), square_bit, graph.zero(2)))
+    return problem
+
+
+def test_unknowns_the_simulation_cannot_settle_make_exhaustive_stop_not_guess(monkeypatch):
+    # digit 0 OR bit 2 of o*o for odd o: always digit 0, since an odd square is 1 modulo 8
+    # (elementary number theory), but three-valued simulation leaves that bit unknown, so
+    # every lane where digit 0 has bit 2 clear needs z3
+    from bcdprove.engines import replay
+    monkeypatch.setattr(replay, "UNKNOWN_LANE_LIMIT", 16)     # keep the z3 calls few
+    problem = _cancelling_unknown_problem()
     verdict = _run("exhaustive", problem)
     assert verdict.status == UNKNOWN and "unknown values" in verdict.reason
     assert verdict.stats["inputs"] >= 16
@@ -213,3 +220,16 @@ def test_engines_agree_with_brute_force(width, threshold):
             assert verdict.counterexample.inputs["bin"] in wrong
         else:
             assert verdict.status == (UNKNOWN if engine == "random" else PROVED)
+
+
+def test_an_undecided_replay_stops_the_engine_with_unknown(monkeypatch):
+    from bcdprove.spec import bin2bcd
+
+    def undecided(self, x, given, unchosen):
+        raise bin2bcd.ReplayUndecided(f"the solver could not settle input {x}")
+
+    monkeypatch.setattr(bin2bcd.Bin2BcdProblem, "_solve_free", undecided)
+    problem = _cancelling_unknown_problem()
+    for engine in ("exhaustive", "random"):
+        verdict = _run(engine, problem)
+        assert verdict.status == UNKNOWN and "could not settle" in verdict.reason

@@ -48,6 +48,16 @@ def _wrong_condition(problem, encoder, form: str):
     raise ValueError(f"unknown formulation {form!r}; choose one of {', '.join(FORMS)}")
 
 
+def _shrunk(problem, found, budget: Budget, stats: dict):
+    """The solver picks any failing input; a smaller one nearby reads better in a report."""
+    from .replay import LaneChecker, shrink
+
+    smaller = shrink(LaneChecker(problem), found, budget)
+    if smaller is not found:
+        stats["shrunk_from"] = str(found.inputs[problem.input_ports[0]])
+    return smaller
+
+
 class SmtEngine:
     """A single z3 query; the time limit comes from the budget."""
 
@@ -96,6 +106,7 @@ class SmtEngine:
                 return Verdict(UNKNOWN, self.name, seconds, covered=range_text,
                                reason=f"the solver's counterexample (input {x}) did not replay "
                                       f"as wrong on the model; please report this", stats=stats)
+            found = _shrunk(problem, found, budget, stats)
             return Verdict(DISPROVED, self.name, time.monotonic() - started,
                            counterexample=found, covered=f"{range_text}, by one miter "
                                                          f"({self.form} form)", stats=stats)

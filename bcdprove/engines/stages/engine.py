@@ -22,10 +22,11 @@ from .obligations import ObligationSolver, Outcome
 from .reference import digit_count, step_nodes, top_pair_bound
 
 Progress = Callable[[int, int], None]
+_LINKED_SECONDS = 20.0   # a query that sums every digit of a stage; an earlier stage may do
 _ZERO_SECONDS = 2.0      # a zero proof that is not quick is a cone that the cut does not bound
 
 
-def _spread(facts: dict[int, list], nodes: dict[int, Node], depth: int = 4) -> None:
+def _spread(facts: dict[int, list], nodes: dict[int, Node], depth: int = 16) -> None:
     """Give the parts of a cut node its facts: the bits of ``concat(a, b)`` are the bits of
     ``a`` and ``b``, those of ``extract(m)`` bits of ``m``, the low bits of ``zext(a)`` those
     of ``a``.  Hash-consing folds a slice of a concatenation to the part itself, so the next
@@ -368,8 +369,9 @@ class _Run:
             found = self._references[key] = digits
         return found
 
-    def _assumptions(self, nodes: list[Node], cut: Cut) -> Node:
-        """Valid digits (each <= 9) and each stage's range, for the digit leaves ``nodes`` use."""
+    def _assumptions(self, nodes: list[Node], cut: Cut) -> tuple[Node, bool]:
+        """Valid digits (each <= 9) and each stage's range, for the digit leaves ``nodes`` use;
+        and whether the stage value had to be tied to the input bits (a costlier query)."""
         cone = self.cone
         used: dict[int, set[int]] = {}            # distance back -> digit indices
         consumed = False                          # reads an input bit already in the digits
@@ -395,7 +397,7 @@ class _Run:
                 condition = cone.and_(condition, self._top_pair(stage, distance))
         if consumed and cut.digits:
             condition = cone.and_(condition, self._value_link(cut))
-        return condition
+        return condition, consumed
 
     def _value_link(self, cut: Cut) -> Node:
         """The stage digits read as a number equal the input bits they came from.
@@ -444,7 +446,9 @@ class _Run:
     def _check(self, rebuilt: Node, expected: Node, cut: Cut, where: str,
                extra: Optional[Node] = None, cap: Optional[float] = None) -> Outcome:
         cone = self.cone
-        assume = self._assumptions([rebuilt, expected], cut)
+        assume, linked = self._assumptions([rebuilt, expected], cut)
+        if linked:
+            cap = min(cap or _LINKED_SECONDS, _LINKED_SECONDS)
         if extra is not None:
             assume = cone.and_(assume, extra)
         bad = cone.and_(assume, cone.ne(rebuilt, expected))

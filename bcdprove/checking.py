@@ -15,6 +15,7 @@ from typing import Mapping, Optional, Sequence
 
 from .engines.base import DISPROVED, PROVED, UNKNOWN, Budget, Verdict
 from .engines.registry import EngineOptions, make_engine
+from .engines.smt_miter import DEFAULT_FORM
 from .model.design import Model
 from .spec.bin2bcd import Bin2BcdProblem, build_problem
 
@@ -72,7 +73,7 @@ def check_model(model: Model, *, inputs: str | Sequence[str] | None = None,
                 max_input: int | None = None, ties: Mapping[str, int] | None = None,
                 engine: str = "auto", timeout: float | None = None, exhaustive_limit: int = 24,
                 random_vectors: int = 1 << 20, seed: int = 1,
-                smt_form: str = "multiply", started: float | None = None) -> CheckResult:
+                smt_form: str = DEFAULT_FORM, started: float | None = None) -> CheckResult:
     """Check ``model`` against the binary-to-BCD specification with engine ``engine``.
 
     ``timeout`` (seconds) bounds the whole check, both verdicts included, counted from

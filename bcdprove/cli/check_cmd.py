@@ -10,6 +10,7 @@ from typing import List, Optional
 
 import typer
 
+from ..engines.smt_miter import DEFAULT_FORM
 from ..errors import BcdproveError
 from . import _design_options as opt
 from ._options import parse_assignments, parse_number
@@ -60,7 +61,7 @@ def check_command(
     vectors: int = typer.Option(1 << 20, "--vectors", metavar="N",
                                 help="Vectors of the random engine."),
     seed: int = typer.Option(1, "--seed", help="Seed of the random vectors."),
-    smt_form: str = typer.Option("multiply", "--smt-form",
+    smt_form: str = typer.Option(DEFAULT_FORM, "--smt-form",
                                  help="Miter formulation of the smt engine: divide or multiply."),
     as_json: bool = typer.Option(False, "--json", help="One JSON object on stdout, nothing else."),
     junit: Optional[str] = typer.Option(None, "--junit", metavar="PATH",

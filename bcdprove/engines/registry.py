@@ -9,6 +9,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from ..errors import BcdproveError
+from .smt_miter import DEFAULT_FORM
 
 ENGINE_NAMES = ("auto", "exhaustive", "random", "smt", "stages")
 
@@ -21,7 +22,7 @@ class EngineOptions:
     random_vectors: int = 1 << 20       # vectors of the random engine
     hunt_vectors: int = 1 << 14         # vectors of auto's quick bug hunt
     seed: int = 1                       # random engine seed, for reproducible runs
-    smt_form: str = "multiply"          # smt miter formulation: divide | multiply
+    smt_form: str = DEFAULT_FORM        # smt miter formulation: divide | multiply
 
 
 def stage_engine(options: EngineOptions):

@@ -145,6 +145,7 @@ class _Module:
         roll = rng.random()
         if roll < 0.4:
             lines.append(f"      {acc.name} = {acc.name} + {self.expr(2, pool, extras)};")
+            self.b.template_word_x = True
         elif roll < 0.7 and acc.low == 0 and not acc.ascending and acc.width >= count:
             lines.append(f"      {acc.name}[{loop}] = {self.expr(2, pool, extras)};")
         else:
@@ -290,4 +291,4 @@ class _Module:
         text = self.pre + [f"module {self.name}({', '.join(ports)});"] + self.body + ["endmodule"]
         return Case(self.name, "\n".join(text) + "\n", tuple(self.b.sites),
                     tuple(as_port(o) for o in self.inputs), tuple(outputs), case_seed,
-                    self.b.template_x)
+                    self.b.template_x, self.b.template_word_x)

@@ -47,6 +47,13 @@ class Expr:
     x_source: bool = False
     unsized_rule: str = "any"    # leaf: "yes"/"no"; else "any" child, "first", "arms", "no"
     literal: bool = False        # a leaf that is a number
+    # an operator whose result IEEE 1364-2005 makes wholly x when any operand bit is x
+    # (arithmetic, relational, shift by a variable amount: clauses 5.1.5, 5.1.7, 5.1.12)
+    word_x: bool = False
+
+    @property
+    def has_word_x(self) -> bool:
+        return self.word_x or any(c.has_word_x for c in self.children)
 
     @property
     def constant(self) -> bool:
@@ -86,7 +93,7 @@ def leaf(text: str, width: int, signed: bool = False, *, x_source: bool = False,
 
 
 def node(width: int, signed: bool, *parts, kind: str = "op", frozen: bool = False,
-         x_source: bool = False, unsized: str = "any") -> Expr:
+         x_source: bool = False, unsized: str = "any", word_x: bool = False) -> Expr:
     """Build a node from alternating text and Expr parts (text first and last).
 
     ``unsized`` is the rule of :attr:`Expr.unsized_rule`; "any" child suits context-determined
@@ -103,7 +110,8 @@ def node(width: int, signed: bool, *parts, kind: str = "op", frozen: bool = Fals
         else:
             pending += part
     pieces.append(pending)
-    return Expr(tuple(pieces), tuple(children), width, signed, kind, frozen, x_source, unsized)
+    return Expr(tuple(pieces), tuple(children), width, signed, kind, frozen, x_source, unsized,
+                word_x=word_x)
 
 
 def _valid(expr: Expr) -> bool:
@@ -256,7 +264,8 @@ class ExpressionMaker:
     some of the time and x/z literals appear.  ``avoid`` holds tags of constructs to leave
     out (those that reach a known, open reader bug; see regressions.py):
     "unary-caret-tilde" (unary ``^~``), "division-in-amount" (``/`` or ``%`` inside a shift
-    amount or a select index).
+    amount or a select index), "free-in-condition" (a ``?:`` condition holding a division
+    or a variable select, which the reader models with a free value).
     """
 
     def __init__(self, rng: random.Random, operands: Sequence[Operand], allow_x: bool = False,
@@ -266,6 +275,7 @@ class ExpressionMaker:
         self.narrow_division = narrow_division
         self.avoid = avoid
         self._no_division = False
+        self._no_free = False
         self.operands = list(operands)
         self.allow_x = allow_x
         self.extras = list(extras)
@@ -291,6 +301,8 @@ class ExpressionMaker:
             return leaf(f"{op.name}[{index}]", 1, False, x_source=True)
         if roll < 0.3:
             return leaf(f"{op.name}[{rng.randint(op.low, op.high)}]", 1)
+        if roll >= 0.75 and self._no_free:
+            return leaf(op.name, op.width, op.signed)
         if roll < 0.55:
             a, b = sorted(rng.randint(op.low, op.high) for _ in range(2))
             text = f"{op.name}[{a}:{b}]" if op.ascending else f"{op.name}[{b}:{a}]"
@@ -353,18 +365,24 @@ class ExpressionMaker:
             return self._binary(rng.choice(_ARITH + _BITWISE), sub(), sub())
         if roll < 0.40:
             a, b = sub(), sub()
-            return node(1, False, "(", a, f" {rng.choice(_COMPARE + _LOGICAL)} ", b, ")", unsized="no")
+            op = rng.choice(_COMPARE + _LOGICAL)
+            return node(1, False, "(", a, f" {op} ", b, ")", unsized="no", word_x=op[0] in "<>")
         if roll < 0.52:
             return self._shift(sub(), depth)
         if roll < 0.60:
             a = sub()
             op = rng.choice(_UNARY_SAME)
             if rng.random() < 0.5:
-                return node(a.width, a.signed, f"({op}", a, ")")
+                return node(a.width, a.signed, f"({op}", a, ")", word_x=op == "-")
             choices = [u for u in _UNARY_BIT if not (u == "^~" and "unary-caret-tilde" in self.avoid)]
             return node(1, False, f"({rng.choice(choices)}", a, ")", unsized="no")
         if roll < 0.68:
-            c, a, b = sub(), sub(), sub()
+            outer, self._no_free = self._no_free, self._no_free or "free-in-condition" in self.avoid
+            try:
+                c = sub()
+            finally:
+                self._no_free = outer
+            a, b = sub(), sub()
             return node(max(a.width, b.width), a.signed and b.signed, "(", c, " ? ", a, " : ", b, ")",
                         unsized="arms")
         if roll < 0.78:
@@ -392,7 +410,7 @@ class ExpressionMaker:
 
     def _binary(self, op: str, a: Expr, b: Expr) -> Expr:
         width, signed = max(a.width, b.width), a.signed and b.signed
-        if op in ("/", "%") and self._no_division:
+        if op in ("/", "%") and (self._no_division or self._no_free):
             op = "-"
         if op in ("/", "%") and self.narrow_division and width > 64:
             # Icarus 11's vvp can hang on some wide procedural divisions (e.g. a 130-bit
@@ -400,10 +418,11 @@ class ExpressionMaker:
             op = "+"
         if op in ("/", "%"):
             if self.allow_x and self.rng.random() < 0.5:
-                return node(width, signed, "(", a, f" {op} ", b, ")", x_source=True)
-            # an odd divisor is never zero, whatever width the context gives it
-            return node(width, signed, "(", a, f" {op} (", b, " | 1'b1))")
-        return node(width, signed, "(", a, f" {op} ", b, ")")
+                return node(width, signed, "(", a, f" {op} ", b, ")", x_source=True, word_x=True)
+            # a divisor with bit 1 set is never zero, whatever width the context gives it, and
+            # never 1: Icarus 11 divides a wide all-ones value by 1 wrongly (regressions.py)
+            return node(width, signed, "(", a, f" {op} (", b, " | 2'b10))", word_x=True)
+        return node(width, signed, "(", a, f" {op} ", b, ")", word_x=op in _ARITH)
 
     def _shift(self, a: Expr, depth: int) -> Expr:
         rng = self.rng
@@ -413,40 +432,41 @@ class ExpressionMaker:
                                  rng.randint(0, a.width + 3), 64, 200])
             amount_text = str(max(amount, 0)) if rng.random() < 0.7 else f"{max(amount, 0).bit_length() + 1}'d{max(amount, 0)}"
             return node(a.width, a.signed, "(", a, f" {op} {amount_text})")
-        self._no_division = "division-in-amount" in self.avoid
+        outer, self._no_division = self._no_division, self._no_division or "division-in-amount" in self.avoid
         try:
             amount_expr = self._expression(min(depth - 1, 1))
         finally:
-            self._no_division = False
+            self._no_division = outer
         if amount_expr.constant:
             # Icarus 11 shifts a bit at a time: a huge constant amount hangs it
             amount_expr = leaf(f"8'd{rng.randint(0, 255)}", 8, literal=True)
-        return node(a.width, a.signed, "(", a, f" {op} ", amount_expr, ")", unsized="first")
+        return node(a.width, a.signed, "(", a, f" {op} ", amount_expr, ")", unsized="first",
+                    word_x=True)
 
     def _power(self, base: Expr) -> Expr:
         rng = self.rng
         roll = rng.random()
         if roll < 0.4:
             exponent = leaf(str(rng.randint(0, 4)), 32, True, frozen=True, unsized=True)
-            return node(base.width, base.signed, "(", base, " ** ", exponent, ")", unsized="first")
+            return node(base.width, base.signed, "(", base, " ** ", exponent, ")", unsized="first", word_x=True)
         narrow = [o for o in self.operands if o.selectable]
         if not narrow:
             exponent = leaf(f"2'd{rng.randint(0, 3)}", 2, False, frozen=True)
-            return node(base.width, base.signed, "(", base, " ** ", exponent, ")", unsized="first")
+            return node(base.width, base.signed, "(", base, " ** ", exponent, ")", unsized="first", word_x=True)
         op = rng.choice(narrow)
         bits = min(op.width, 2)
         exponent = leaf(f"{op.name}[{op.low + bits - 1}:{op.low}]" if not op.ascending
                         else f"{op.name}[{op.low}:{op.low + bits - 1}]", bits, frozen=True)
         if roll < 0.75 or base.constant:
             # a constant base with a signed exponent crashes Icarus 11 (eval_tree.cc assertion)
-            return node(base.width, base.signed, "(", base, " ** ", exponent, ")", unsized="first")
+            return node(base.width, base.signed, "(", base, " ** ", exponent, ")", unsized="first", word_x=True)
         signed_exponent = node(bits, True, "$signed(", exponent, ")", frozen=True)
         if self.allow_x and rng.random() < 0.5:
             # 0 ** negative is x (IEEE 1364-2005 table 5-6)
             return node(base.width, base.signed, "(", base, " ** ", signed_exponent, ")", x_source=True,
-                        unsized="first")
+                        unsized="first", word_x=True)
         return node(base.width, base.signed, "((", base, " | 1'b1) ** ", signed_exponent, ")",
-                    unsized="first")
+                    unsized="first", word_x=True)
 
 
 def _join(parts: Sequence[Expr]) -> list:
@@ -483,6 +503,7 @@ class Case:
     outputs: tuple
     seed: str
     template_x: bool = False      # an x source written into the template itself
+    template_word_x: bool = False  # arithmetic written into the template itself
 
     def text(self) -> str:
         pieces = self.template.split(_MARK)
@@ -493,6 +514,15 @@ class Case:
     @property
     def has_x_source(self) -> bool:
         return self.template_x or any(s.has_x for s in self.sites)
+
+    @property
+    def has_word_x(self) -> bool:
+        """Holds an operator whose result the standard makes wholly x on any x operand bit.
+
+        Where such an operator meets an x, Icarus prints x for bits the model (x as an
+        unknown 0/1 value) may know, e.g. the high bits of ``{4'b0, 4'bx} + 1``.
+        """
+        return self.template_word_x or any(s.has_word_x for s in self.sites)
 
     @property
     def size(self) -> int:
@@ -513,6 +543,7 @@ class _Builder:
         self.lines: list[str] = []
         self.sites: list[Expr] = []
         self.template_x = False
+        self.template_word_x = False
 
     def site(self, expr: Expr) -> str:
         self.sites.append(expr)

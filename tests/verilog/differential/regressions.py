@@ -2,7 +2,8 @@
 
 Each entry is a module (ports in ANSI form, ranges written out), one input vector and the
 bits Icarus Verilog 11 prints for each output (most significant first), cross-checked with
-the IEEE 1364-2005 clause named.  ``reader_bug`` names the defect while it is open: the test
+the IEEE 1364-2005 clause named (where Icarus itself is wrong, ``icarus_prints`` records what
+it prints and the expected bits come from the clause and Python's int).  ``reader_bug`` names the defect while it is open: the test
 of that entry is then an expected failure (strict, so a fix shows up as an unexpected pass,
 and the mark must be removed), and the campaigns leave the construct out (``avoid``) so
 they keep testing everything else.
@@ -25,6 +26,9 @@ class Regression:
     source: str                     # where the expected value comes from, besides Icarus
     reader_bug: Optional[str] = None
     avoid: tuple = ()               # generator construct tags that reach this bug
+    # Icarus 11 itself deviates from the standard here: ``expected`` then comes from the
+    # named source (Python's int as reference code), and ``icarus_prints`` records Icarus
+    icarus_prints: Optional[dict] = None
 
     def case(self) -> Case:
         """The entry as a generated-style case (so the harness can run it)."""
@@ -99,6 +103,42 @@ REGRESSIONS = [
         "IEEE 1364-2005 clause 5.2.1: a[2 / 3] is a[0] = 1 (in range, divisor not zero)",
         reader_bug="a select whose index contains / or % is modelled as unknown",
         avoid=("division-in-amount",),
+    ),
+    Regression(
+        "conditional_on_a_variable_select",
+        "module reg_condsel(input [2:0] a, input [7:0] b, output [3:0] y);\n"
+        "  assign y = b[a] ? 4'd0 : 4'b0111;\n"
+        "endmodule\n",
+        {"a": 0, "b": 0},
+        {"y": "0111"},
+        "IEEE 1364-2005 clause 5.1.13: the condition b[0] is a known 0, so the result is "
+        "the third operand (the x merge applies only to an x condition); a 3-bit index is "
+        "always inside [7:0]",
+        reader_bug="?: whose condition holds a variable select or a division is always the "
+                   "x merge of its arms, whatever the condition's value",
+        avoid=("free-in-condition",),
+    ),
+    Regression(
+        "conditional_on_a_guarded_quotient",
+        "module reg_conddiv(input [3:0] a, input [3:0] b, output [3:0] y);\n"
+        "  assign y = (a / (b | 1'b1)) ? 4'd0 : 4'b0111;\n"
+        "endmodule\n",
+        {"a": 0, "b": 0},
+        {"y": "0111"},
+        "IEEE 1364-2005 clause 5.1.13: 0 / 1 is a known 0, so the result is the third operand",
+        reader_bug="?: whose condition holds a variable select or a division is always the "
+                   "x merge of its arms, whatever the condition's value",
+        avoid=("free-in-condition",),
+    ),
+    Regression(
+        "wide_all_ones_divided_by_one",
+        "module reg_widediv(input [64:0] a, input [1:0] b, output [31:0] y);\n"
+        "  assign y = a / b;\n"
+        "endmodule\n",
+        {"a": (1 << 65) - 1, "b": 1},
+        {"y": format(((1 << 65) - 1) // 1 & 0xFFFFFFFF, "032b")},   # Python int: 2**65-1 // 1
+        "IEEE 1364-2005 clause 5.1.5 (integer division); Python's int as reference code",
+        icarus_prints={"y": "0" * 32},
     ),
 ]
 

@@ -289,6 +289,10 @@ class _Module:
         ports = [as_port(o).declaration("input") for o in self.inputs]
         ports += [p.declaration("output") for p in outputs]
         text = self.pre + [f"module {self.name}({', '.join(ports)});"] + self.body + ["endmodule"]
+        if any(" if (" in line or " case" in line for line in self.body):
+            # a simulator takes the else branch (or no case item) on an x condition, where
+            # the model, reading x as some 0/1 value, may know which branch every value takes
+            self.b.template_word_x = True
         return Case(self.name, "\n".join(text) + "\n", tuple(self.b.sites),
                     tuple(as_port(o) for o in self.inputs), tuple(outputs), case_seed,
                     self.b.template_x, self.b.template_word_x)

@@ -68,6 +68,9 @@ def choose_input(model: Model, named: list[str] | None, ties: dict[str, int]) ->
         narrow = [p for p in candidates if p.width == 1]
         return wide[0].name, (f"input `{wide[0].name}`: the only input wider than one bit "
                               f"({_names(narrow)} left free: tie them with --tie PORT=VALUE)")
+    if not candidates and ties:
+        raise BcdproveError(f"every input of `{model.top}` is tied ({', '.join(ties)}); the "
+                            f"binary input cannot be tied: drop it from --tie")
     if not candidates:
         raise BcdproveError(f"module `{model.top}` has no input port to read the binary value from")
     raise BcdproveError(f"module `{model.top}` has several data inputs ({_names(candidates)}); "

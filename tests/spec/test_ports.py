@@ -104,3 +104,10 @@ def test_clocked_model_is_refused():
     model.registers.append(Register("r", 4, state, state, "clk", "posedge"))
     with pytest.raises(BcdproveError, match="clocked"):
         build_problem(model)
+
+
+def test_tying_the_only_input_is_refused():
+    with pytest.raises(BcdproveError, match="cannot be tied"):
+        build_problem(packed_converter(8, 3), ties={"bin": 1})
+    with pytest.raises(BcdproveError, match="both the data input and tied"):
+        build_problem(packed_converter(8, 3), inputs=["bin"], ties={"bin": 1})

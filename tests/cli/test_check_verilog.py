@@ -9,7 +9,6 @@ import json
 import subprocess
 import sys
 import xml.etree.ElementTree as ElementTree
-from pathlib import Path
 
 from tests.designs.catalog import DESIGNS, REPOSITORY
 from tests.support.icarus import run_icarus

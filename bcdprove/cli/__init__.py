@@ -32,13 +32,13 @@ def main() -> None:
     """Console-script entry: bad input is one ``file:line: message`` line and exit code 2."""
     debug = "--debug" in sys.argv
     try:
-        app(standalone_mode=False)
+        code = app(standalone_mode=False)
     except BcdproveError as error:
         if debug:
             raise
         print(f"bcdprove: error: {error}" if error.file is None else str(error), file=sys.stderr)
         sys.exit(2)
-    except typer.Exit as done:
+    except typer.Exit as done:  # raised through when a command ends early
         sys.exit(done.exit_code)
     except (typer.Abort, KeyboardInterrupt):
         print("bcdprove: interrupted", file=sys.stderr)
@@ -53,3 +53,4 @@ def main() -> None:
         print(f"bcdprove: internal error: {type(error).__name__}: {error} (run with --debug for the "
               f"traceback, and please report it)", file=sys.stderr)
         sys.exit(2)
+    sys.exit(code if isinstance(code, int) else 0)

@@ -43,11 +43,10 @@ def main() -> None:
     except (typer.Abort, KeyboardInterrupt):
         print("bcdprove: interrupted", file=sys.stderr)
         sys.exit(130)
-    except Exception as error:  # click's usage errors and anything unexpected
-        import click
-        if isinstance(error, click.ClickException):
+    except Exception as error:  # usage errors and anything unexpected
+        if hasattr(error, "show") and hasattr(error, "exit_code"):  # click's (typer's own copy)
             error.show()
-            sys.exit(2)
+            sys.exit(error.exit_code)
         if debug:
             raise
         print(f"bcdprove: internal error: {type(error).__name__}: {error} (run with --debug for the "

@@ -97,10 +97,33 @@ def test_max_input_restricts_only_the_outputs():
     assert verdict.counterexample.inputs["x"] == 10000     # the only input above 9999 allowed
 
 
-def test_division_by_ten_is_unknown_never_disproved():
+def test_division_by_ten_is_proved_multiplicatively():
     verdict = StageEngine().run(_problem(division_by_ten, 12), Budget(120))
-    assert verdict.status == UNKNOWN
-    assert "division" in verdict.reason
+    assert verdict.status == PROVED, verdict.reason
+    assert "10*q" in verdict.covered
+
+
+def test_a_design_of_neither_family_is_unknown_with_both_reasons():
+    # Digits of x + 1 (a wrong converter that is neither shifts nor divisions of x).
+    def plus_one(graph, width):
+        x = graph.input("x", width)
+        wide = graph.zext(x, width + 1)
+        value = graph.add(wide, graph.const(1, width + 1))
+        ten = graph.const(10, width + 1)
+        digits = []
+        for _ in range(len(str((1 << width) - 1))):
+            digits.append(graph.extract(graph.urem(value, ten), 3, 0))
+            value = graph.udiv(value, ten)
+        return x, digits
+    problem = _problem(plus_one, 10)
+    verdict = StageEngine().run(problem, Budget(120))
+    # It is wrong (x = 0 shows 1; Python int), so a replayed counterexample is fine too.
+    if verdict.status == DISPROVED:
+        x = verdict.counterexample.inputs["x"]
+        assert problem.evaluate(x) != _python_digits(x, len(problem.digits))
+    else:
+        assert verdict.status == UNKNOWN
+        assert "division" in verdict.reason
 
 
 def test_an_exhausted_budget_is_unknown_with_the_reason():

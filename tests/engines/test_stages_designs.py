@@ -108,6 +108,13 @@ def test_missing_top_digit_is_proved_below_its_capacity():
     assert verdict.status == PROVED, verdict.reason
 
 
+def test_division_design_is_proved_at_32_bits():
+    # Repeated % 10 and / 10: proved step by step as q_i == 10*q_(i+1) + d_i, d_i <= 9.
+    verdict = StageEngine().run(_problem("meter_wide_divide", 32), Budget(300))
+    assert verdict.status == PROVED, verdict.reason
+    assert verdict.engine == "stages"
+
+
 def test_stage_bug_is_absent_at_32_bits():
     # The faulty cell sits at stage 40, which a 32-bit array does not have.
     verdict = StageEngine().run(_problem("meter_wide_stage_bug", 32), Budget(300))

@@ -94,6 +94,13 @@ class ConeBuilder:
         self._owners = owners if owners is not None else {n: cut for n in cut.facts}
         self._memo: dict[tuple[int, int, int], Node] = {}
         self._through: dict[int, Optional[tuple[Node, int, int]]] = {}
+        self.replaced: dict[int, Node] = {}      # design node id -> whole cone-graph value
+
+    def replace(self, node: Node, value: Node) -> None:
+        """Stop the copy at ``node``, whose value is ``value`` (a cone-graph node)."""
+        if value.width != node.width:
+            raise ValueError(f"replacement of {node!r} has width {value.width}")
+        self.replaced[node.id] = value
 
     # public --------------------------------------------------------------------------------
     def whole(self, node: Node) -> Node:
@@ -149,10 +156,12 @@ class ConeBuilder:
         return self.cone.input(f"in{node.id}_{i}", 1)
 
     def _build(self, node: Node, hi: int, lo: int) -> Node:
+        if node.id in self.replaced:
+            return self.cone.extract(self.replaced[node.id], hi, lo)
         # A chain of single-digit updates of one wide register passes every other bit
         # through unchanged: jump down the chain to the update that touches [hi:lo] (or
         # to a cut node), instead of copying each level.
-        while node.id not in self._owners:
+        while node.id not in self._owners and node.id not in self.replaced:
             through = self._pass_through(node)
             if through is None:
                 break
@@ -170,6 +179,8 @@ class ConeBuilder:
                     parts.append(self.slice(node, low - 1, lo))
                 return self.cone.concat(*parts)
             break
+        if node.id in self.replaced:
+            return self.cone.extract(self.replaced[node.id], hi, lo)
         if (node.id, hi, lo) in self._memo:
             return self._memo[(node.id, hi, lo)]
         owner = self._owners.get(node.id)

@@ -15,6 +15,7 @@ from typing import Callable, Optional
 from ..base import DISPROVED, PROVED, UNKNOWN, Budget, Counterexample, Verdict
 from ...model.node import Graph, Node, Op, leaves
 from . import obligations as outcomes
+from .division import prove_by_division
 from .cuts import ConeBuilder, ConstBit, Cut, DigitBit, InputBit, NotACut, digit_leaf, input_bit_leaf
 from .lifting import confirm
 from .mining import Candidate, Mining, mine, nesting, screen
@@ -114,6 +115,8 @@ class StageEngine:
         sys.setrecursionlimit(max(old_limit, 30_000))
         try:
             verdict = run.execute()
+            if verdict.status == UNKNOWN and run.few_stages():
+                verdict = self._try_division(problem, budget, run, verdict)
         except _Disproved as found:
             verdict = Verdict(DISPROVED, self.name, counterexample=found.counterexample,
                               covered=f"counterexample found at {found.where}, replayed on the model")
@@ -121,6 +124,22 @@ class StageEngine:
             sys.setrecursionlimit(old_limit)
         verdict.seconds = time.monotonic() - started
         verdict.stats.update(run.stats())
+        return verdict
+
+
+    def _try_division(self, problem, budget: Budget, run: "_Run", verdict: Verdict) -> Verdict:
+        """Few shift-and-correct stages: try the division-by-ten family instead."""
+        status, words, found = prove_by_division(problem, run.solver, budget,
+                                                 self.obligation_seconds)
+        if status == "proved":
+            return Verdict(PROVED, self.name,
+                           covered=f"every {problem.width}-bit input: {words} "
+                                   f"(q_i == 10*q_(i+1) + d_i, d_i <= 9), "
+                                   f"{run.solver.posed} obligations")
+        if status == "disproved":
+            return Verdict(DISPROVED, self.name, counterexample=found,
+                           covered=f"counterexample found at {words}, replayed on the model")
+        verdict.reason += f"; division by ten: {words}"
         return verdict
 
 
@@ -481,11 +500,14 @@ class _Run:
         if self.problem.max_input is not None:
             reason += ("; note: stages are proved for every input, only the step to the "
                        "outputs is restricted to x <= max_input")
-        if self.mining is not None and 2 * sum(self.mining.matched(s) for s in
-                                               range(self.width + 1)) < self.width:
-            reason += ("; no shift-and-correct stages were found in the design (a division by "
-                       "ten design needs another engine)")
+        if self.few_stages():
+            reason += "; no shift-and-correct stages were found in the design"
         return reason
+
+    def few_stages(self) -> bool:
+        """Under half of the stages matched: not a shift-and-correct design, it seems."""
+        return self.mining is not None and 2 * sum(
+            self.mining.matched(s) for s in range(self.width + 1)) < self.width
 
     def _unknown(self, reason: str) -> Verdict:
         covered = (f"stages 0 to {self.proved_stage} of {self.width} proved for every input"

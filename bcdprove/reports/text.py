@@ -59,7 +59,7 @@ def _place(position: int) -> str:
 
 
 def _verdict_lines(label: str, verdict: Verdict) -> list[str]:
-    lines = [f"{label:<12}{_VERDICT_WORDS.get(verdict.status, verdict.status)} "
+    lines = [f"{label:<11} {_VERDICT_WORDS.get(verdict.status, verdict.status)} "
              f"({verdict.engine}, {verdict.seconds:.2f} s)"]
     if verdict.covered:
         lines.append(f"{'covered':<12}{verdict.covered}")

@@ -2,12 +2,16 @@
 
 A *cut* at stage ``s`` says, for some design nodes, what each of their bits is known to be:
 a bit of digit ``j`` of ``P_s`` (:class:`DigitBit`), a bit of the input ``x``
-(:class:`InputBit`) or a constant (:class:`ConstBit`); bits with no such fact are left as
-fresh unconstrained leaves.  :class:`ConeBuilder` copies the logic that computes a slice of a
-later node into a private *cone graph*, stopping at the cut nodes.  The copy only follows the
-bits a slice needs (extracts are pushed through concatenation, extension, bitwise operators,
-multiplexers, constant shifts and the low bits of additions), so the cone of one digit stays
-the size of one digit's cells however wide the registers around it are.
+(:class:`InputBit`) or a constant (:class:`ConstBit`); bits with no such fact keep their own
+logic.  :class:`ConeBuilder` copies the logic that computes a slice of a later node into a
+private *cone graph*, stopping at the cut nodes (and at the nodes of every earlier proved
+stage).  The copy only follows the bits a slice needs (extracts are pushed through
+concatenation, extension, bitwise operators, multiplexers, constant shifts and the low bits
+of additions; chains of single-digit updates of one register are jumped over), so the cone
+of one digit stays the size of one digit's cells however wide the registers around it are.
+
+Soundness: a cut node is replaced only by what its proved facts say it is, so the copy
+equals the original for every input on which those facts hold, which is every input.
 
 Leaves of the cone graph are named relative to the stage, so every stage of a loop builds the
 very same nodes: ``d{j}`` (4 bits) is digit ``j`` of the stage, ``b{o}`` (1 bit) is input bit
@@ -19,7 +23,7 @@ bit ``i`` of another input leaf.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Callable, Optional, Sequence, Union
+from typing import Callable, Optional, Union
 
 from ...model.node import Graph, Node, Op, mask
 
@@ -55,11 +59,10 @@ class Cut:
     stage: int
     digits: int                               # digits of P_s that may be non-zero
     facts: dict[int, list]                    # node id -> [Fact per bit, bit 0 first]
-    slots: dict[int, int]                     # node id -> a small index, for leaf names
 
     @staticmethod
     def empty() -> "Cut":
-        return Cut(stage=0, digits=0, facts={}, slots={})
+        return Cut(stage=0, digits=0, facts={})
 
 
 def digit_leaf(cone: Graph, digit: int, distance: int = 0) -> Node:

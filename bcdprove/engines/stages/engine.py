@@ -16,7 +16,7 @@ from ..base import DISPROVED, PROVED, UNKNOWN, Budget, Counterexample, Verdict
 from ...model.node import Graph, Node, Op, leaves
 from . import obligations as outcomes
 from .division import prove_by_division
-from .cuts import ConeBuilder, ConstBit, Cut, DigitBit, InputBit, NotACut, digit_leaf, input_bit_leaf
+from .cuts import ConeBuilder, ConstBit, Cut, DigitBit, NotACut, digit_leaf, input_bit_leaf
 from .lifting import confirm
 from .mining import Candidate, Mining, mine, nesting, screen
 from .obligations import ObligationSolver, Outcome
@@ -276,8 +276,7 @@ class _Run:
                 for i, fact in self._prove_bits(builder, cut, stage, node, low, high, proposed):
                     bits[i] = fact
         _spread(facts, nodes)
-        slots = {node_id: k for k, node_id in enumerate(facts)}
-        return Cut(stage=stage, digits=digit_count(stage), facts=facts, slots=slots)
+        return Cut(stage=stage, digits=digit_count(stage), facts=facts)
 
     def _prove_bits(self, builder: ConeBuilder, cut: Cut, stage: int, node: Node, low: int,
                     high: int, proposed: list) -> list[tuple[int, object]]:

@@ -426,14 +426,16 @@ class Expressions:
         g = self.graph
         base = self.value(e.left, width, signed)
         exponent, exponent_type = self.self_value(e.right)
+        # Icarus Verilog 11 (measured): in an unsigned power the exponent is read unsigned too
+        exponent_signed = exponent_type.signed and signed
         one = g.const(1, width)
         if exponent.op == Op.CONST and base.op == Op.CONST:
             b = to_signed(base.value, width) if signed else base.value
-            x = to_signed(exponent.value, exponent.width) if exponent_type.signed else exponent.value
+            x = to_signed(exponent.value, exponent.width) if exponent_signed else exponent.value
             if x >= 0:
                 return g.const(pow(b, x, 1 << width), width)
             if b == 0:
-                return g.free(width, "zero to a negative power")
+                return g.free(width, "x: zero to a negative power")
             if b == 1:
                 return one
             if b == -1:
@@ -442,13 +444,13 @@ class Expressions:
         # square and multiply over the exponent's bits (positive part)
         result = one
         square = base
-        bits = exponent.width - (1 if exponent_type.signed else 0)
+        bits = exponent.width - (1 if exponent_signed else 0)
         for i in range(max(bits, 0)):
             bit = g.extract(exponent, i, i)
             result = g.ite(bit, g.mul(result, square), result)
             if i + 1 < bits:
                 square = g.mul(square, square)
-        if not exponent_type.signed:
+        if not exponent_signed:
             return result
         negative = g.extract(exponent, exponent.width - 1, exponent.width - 1)
         odd = g.extract(exponent, 0, 0)
@@ -646,7 +648,7 @@ class Expressions:
             if 0 <= bit < width:
                 parts.append(self._base_bits(base, var, bit, bit))
             else:
-                parts.append(g.free(1, "select outside the declared range"))
+                parts.append(g.free(1, "x: select outside the declared range"))
         return g.concat(*parts)
 
     def _select(self, e: Any, base: Any, var: Optional[Var], width: int, msb: int, lsb: int,
@@ -665,7 +667,7 @@ class Expressions:
         shifted = g.extract(g.lshr(g.zext(full, width + count), offset), count - 1, 0) \
             if count <= width else g.free(count, "select wider than its base")
         if fits.op == Op.CONST:
-            return shifted if fits.value else g.free(count, "select outside the declared range")
+            return shifted if fits.value else g.free(count, "x: select outside the declared range")
         return g.ite(fits, shifted, g.free(count, "select outside the declared range"))
 
     def dynamic_offset(self, index: Node, signed: bool, count: int, up: bool, width: int,
@@ -691,7 +693,7 @@ class Expressions:
             k = position - memory.first
             if 0 <= k < len(memory.elements):
                 return self._read_var(memory.elements[k], e)
-            return g.free(memory.element_width, "memory address out of range")
+            return g.free(memory.element_width, "x: memory address out of range")
         index, index_type = self.self_value(e.ptr)
         if self.design.has_unknown(index):
             return g.free(memory.element_width, "memory read at an unknown address")

@@ -556,8 +556,10 @@ class Elaborator(Resolver):
                       f"{etype.width} bits (clause 12.3.10: extended or truncated)", inst)
 
         def produce() -> Node:
-            value = expressions.value(expr, max(var.width, etype.width), etype.signed)
-            return g.extract(value, var.width - 1, 0)
+            # Icarus Verilog 11 (measured): the connected expression is self-determined,
+            # then extended by its own signedness or truncated to the port.
+            value, _ = expressions.self_value(expr)
+            return g.resize(value, var.width, etype.signed)
         self.add_driver(var, 0, var.width - 1, produce, inst, "port connection")
 
     def _connect_output(self, scope: Scope, inst: Any, var: Var, expr: Any) -> None:

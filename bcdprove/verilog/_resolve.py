@@ -21,6 +21,11 @@ from ._targets import lvalue_parts
 
 _CALL_DEPTH_LIMIT = 200
 
+# Reasons of free values that stand for a guarded case only (see Resolver.has_unknown).
+GUARD_REASONS = frozenset({"division by zero", "zero to a negative power",
+                           "select outside the declared range", "memory address out of range",
+                           "select wider than its base"})
+
 
 class ProceduralBlock:
     """An always block: the vars it drives (with the bits it may drive) and its results."""
@@ -99,13 +104,20 @@ class Resolver:
 
     # --------------------------------------------------------------- node facts
     def has_unknown(self, node: Node) -> bool:
-        """Whether ``node`` depends on a free (x/z) value."""
+        """Whether ``node`` depends on an x source: an x/z literal, an undriven net, an
+        unconnected input, ...  The free values that only stand for what an impossible or
+        guarded case gives (division by zero, a select out of range) do not count: they sit
+        under an ``ite`` whose condition the structure cannot see is never true, and counting
+        them would turn known values into unknown ones."""
         known = self._unknown
         if node.id in known:
             return known[node.id]
         for item in topological([node]):
             if item.id not in known:
-                known[item.id] = item.op == Op.FREE or any(known[a.id] for a in item.args)
+                if item.op == Op.FREE:
+                    known[item.id] = item.params[1] not in GUARD_REASONS
+                else:
+                    known[item.id] = any(known[a.id] for a in item.args)
         return known[node.id]
 
     # --------------------------------------------------------------- drivers

@@ -27,7 +27,7 @@ _LINKED_SECONDS = 20.0   # a query that sums every digit of a stage; an earlier 
 _ZERO_SECONDS = 2.0      # a zero proof that is not quick is a cone that the cut does not bound
 
 
-def _spread(facts: dict[int, list], nodes: dict[int, Node], depth: int = 16) -> None:
+def _spread(facts: dict[int, list], nodes: dict[int, Node], depth: int = 1000) -> None:
     """Give the parts of a cut node its facts: the bits of ``concat(a, b)`` are the bits of
     ``a`` and ``b``, those of ``extract(m)`` bits of ``m``, the low bits of ``zext(a)`` those
     of ``a``.  Hash-consing folds a slice of a concatenation to the part itself, so the next

@@ -426,8 +426,10 @@ class Expressions:
         g = self.graph
         base = self.value(e.left, width, signed)
         exponent, exponent_type = self.self_value(e.right)
-        # Icarus Verilog 11 (measured): in an unsigned power the exponent is read unsigned too
-        exponent_signed = exponent_type.signed and signed
+        # Clause 5.1.5: the exponent keeps its own signedness (it is self-determined).
+        # Icarus 11 differs when an unsigned base is all ones and at most 64 bits wide: it
+        # then reads the base as -1; the standard's table reads it as a large positive value.
+        exponent_signed = exponent_type.signed
         one = g.const(1, width)
         if exponent.op == Op.CONST and base.op == Op.CONST:
             b = to_signed(base.value, width) if signed else base.value

@@ -84,6 +84,41 @@ class ClockedResult:
         """The first disproved obligation, if any."""
         return next((o for o in self.obligations if o.verdict.status == DISPROVED), None)
 
+    def as_dict(self) -> dict:
+        """A JSON-ready summary: status, protocol, each obligation's verdict and, for a
+        failing one, the counterexample and the run (one object per cycle)."""
+        protocol = self.protocol
+        record = {"module": self.model.top, "files": list(self.model.files), "clocked": True,
+                  "status": self.status, "exit_code": self.exit_code, "engine": self.engine,
+                  "seconds": round(self.seconds, 3),
+                  "protocol": {"kind": protocol.kind, "clock": protocol.clock,
+                               "reset": protocol.reset,
+                               "reset_active_low": protocol.reset_active_low,
+                               "start": protocol.start, "done": protocol.done,
+                               "latency": protocol.latency, "hold_input": protocol.hold_input,
+                               "max_cycles": protocol.max_cycles},
+                  "reasons": list(protocol.reasons), "obligations": []}
+        for obligation in self.obligations:
+            verdict = obligation.verdict
+            item = {"title": obligation.title, "status": verdict.status,
+                    "engine": verdict.engine, "seconds": round(verdict.seconds, 3),
+                    "covered": verdict.covered, "reason": verdict.reason}
+            found = verdict.counterexample
+            if found is not None:
+                problem = obligation.clocked.problem
+                item["counterexample"] = {
+                    "input": obligation.clocked.data_input,
+                    "value": found.inputs[problem.input_ports[0]],
+                    "present_cycle": obligation.present_cycle,
+                    "read_cycle": obligation.read_cycle,
+                    "expected": found.expected, "actual": found.actual, "wrong": found.wrong,
+                    "note": found.note}
+                item["run"] = [{"cycle": c.cycle, "inputs": c.inputs, "outputs": c.outputs,
+                                "registers": c.registers} for c in obligation.trace or []]
+            record["obligations"].append(item)
+        record["notes"] = list(self.notes)
+        return record
+
 
 def check_clocked(files: Sequence[str], top: str, *, parameters: Mapping[str, int] | None = None,
                   include_dirs: Sequence[str] = (), defines: Mapping[str, str] | None = None,

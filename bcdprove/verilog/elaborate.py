@@ -70,7 +70,14 @@ def _run_deep(work) -> None:
         except RecursionError:
             outcome["error"] = BcdproveError("design too deeply nested to elaborate "
                                              "(recursion limit)")
-        except BaseException as error:  # handed to the caller's thread below
+        except BcdproveError as error:  # handed to the caller's thread below
+            outcome["error"] = error
+        except Exception as error:  # a reader bug must still end in a message, not a trace
+            outcome["error"] = BcdproveError(
+                f"internal error while elaborating ({type(error).__name__}: {error}); "
+                "please report it with the design")
+            outcome["error"].__cause__ = error
+        except BaseException as error:  # KeyboardInterrupt and the like: re-raised as is
             outcome["error"] = error
         finally:
             if collecting:

@@ -168,3 +168,35 @@ def clocked_report(result) -> str:
         lines.append(f"{failing.title}:")
         lines.extend(failure_lines(failing))
     return "\n".join(lines)
+
+
+def evaluation_table(results, registers: bool = False) -> str:
+    """``bcdprove eval --cycles``: one row per cycle, one column per input and output port
+    (and register with ``registers``); one-bit values as 0/1/x, wider ones in hex with x for
+    unknown digits (IEEE 1364-2005 clause 17.1.1.3 style)."""
+    from .values import hexadecimal
+
+    if not results:
+        return ""
+    first = results[0]
+    groups = [first.inputs, first.outputs] + ([first.registers] if registers else [])
+    names = [(k, n) for k, group in enumerate(groups) for n in group]
+    header = ["cycle"] + [n for _, n in names]
+    rows = [header]
+    for result in results:
+        values = [result.inputs, result.outputs] + ([result.registers] if registers else [])
+        row = [str(result.cycle)]
+        for k, name in names:
+            v = values[k][name]
+            if v.width == 1:
+                row.append("x" if v.unknown else str(v.value))
+            else:
+                row.append(hexadecimal(v.value, v.unknown, v.width))
+        rows.append(row)
+    sizes = [max(len(r[c]) for r in rows) for c in range(len(header))]
+    lines = []
+    for k, row in enumerate(rows):
+        lines.append("  ".join(cell.rjust(size) for cell, size in zip(row, sizes)).rstrip())
+        if k == 0:
+            lines.append("  ".join("-" * s for s in sizes))
+    return "\n".join(lines)

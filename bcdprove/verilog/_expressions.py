@@ -517,6 +517,10 @@ class Expressions:
                       vast.GreaterEq: a >= b, vast.Eq: a == b, vast.NotEq: a != b,
                       vast.Eql: a == b, vast.NotEql: a != b}[type(e)]
             return g.const(int(result), 1)
+        if isinstance(e, (vast.Eql, vast.NotEql)):
+            exact = self._case_equality_with_x(e)
+            if exact is not None:
+                return exact
         # Clause 5.4.1: comparison operands are sized to each other; signed only if both are.
         width = max(a_type.width, b_type.width)
         signed = a_type.signed and b_type.signed
@@ -534,6 +538,19 @@ class Expressions:
         if isinstance(e, (vast.Eq, vast.Eql)):
             return g.eq(a, b)
         return g.ne(a, b)
+
+    def _case_equality_with_x(self, e: Any) -> Optional[Node]:
+        """Clause 5.1.8: ``===`` compares x and z bits literally.  A literal with x/z bits
+        therefore never equals a two-valued operand (a signal or a literal without x/z)."""
+        def x_literal(side: Any) -> bool:
+            return isinstance(side, vast.IntConst) and self._literal(side).unknown != 0
+        left, right = x_literal(e.left), x_literal(e.right)
+        if left == right:
+            return None      # both known (ordinary ==) or both x literals (rare: plain ==)
+        other, _ = self.self_value(e.right if left else e.left)
+        if self.design.has_unknown(other):
+            return None      # it may hold x itself: the model cannot tell, plain == it is
+        return self.graph.const(0 if isinstance(e, vast.Eql) else 1, 1)
 
     def _system_call(self, e: vast.SystemCall, t: Type) -> Node:
         g = self.graph

@@ -241,3 +241,10 @@ def test_string_literal_is_eight_bits_per_character(tmp_path):
     # clause 3.6: "AB" is 16 bits, 0x4142 (Python: int.from_bytes(b"AB", "big"))
     got = one(tmp_path, "output [15:0] y", 'assign y = "AB";')
     assert got["y"] == int.from_bytes(b"AB", "big")
+
+
+def test_case_equality_with_an_x_literal_is_false_for_a_signal(tmp_path):
+    # clause 5.1.8: === compares x bits literally, so a two-valued signal never matches 4'bx
+    got = one(tmp_path, "input [3:0] a, output y, z", "assign y = a === 4'bx;\n"
+              "assign z = a !== 4'b10x1;", a=0b1011)
+    assert got["y"] == 0 and got["z"] == 1

@@ -181,6 +181,18 @@ REGRESSIONS = [
         icarus_prints={"y": "11"},
     ),
     Regression(
+        "unsized_constant_shifted_out",
+        "module reg_lossless(input [64:0] a, output [64:0] y);\n"
+        "  assign y = a + (7 % ((2147483647 <<< 8'd225) | 2'b10));\n"
+        "endmodule\n",
+        {"a": 0},
+        {"y": format(0 + 7 % ((((2147483647 << 225) & ((1 << 65) - 1)) | 2)), "065b")},
+        "IEEE 1364-2005 clauses 5.4.1 and 5.1.12: the shift is 65 bits wide (context), so "
+        "every bit of 2147483647 is shifted out and 7 % 2 = 1 (Python's int as reference "
+        "code); Icarus evaluates the unsized constant without loss and gives 7 % (huge) = 7",
+        icarus_prints={"y": format(7, "065b")},
+    ),
+    Regression(
         "port_expression_sized_by_the_port",
         "module reg_portctx_sub(input [7:0] x, output [7:0] q);\n"
         "  assign q = x;\n"

@@ -13,9 +13,9 @@ from pyverilog.vparser import ast as vast
 
 from ..errors import BcdproveError, DesignError, UnsupportedConstruct
 from ..model.design import Model, Signal, SourceLocation
-from ..model.node import Graph, Node, Op, mask, topological
+from ..model.node import Graph, Node, Op, topological
 from ._expressions import Expressions, Type
-from ._scope import Driver, FunctionDef, Memory, Scope, Var
+from ._scope import Driver, FunctionDef, Scope, Var
 from ._statements import Frame
 from ._targets import lvalue_parts
 

@@ -15,11 +15,11 @@ from typing import Any, Callable, Optional
 
 from pyverilog.vparser import ast as vast
 
-from ..errors import DesignError, UnsupportedConstruct
+from ..errors import UnsupportedConstruct
 from ..model.node import Node, Op, mask, to_signed
 from ._constants import parse_literal
-from ._expressions import Expressions, indexed_select
-from ._scope import Memory, Scope, Var
+from ._expressions import Expressions
+from ._scope import Scope, Var
 
 LOOP_LIMIT = 65536
 

@@ -3,7 +3,7 @@ from __future__ import annotations
 
 import pytest
 
-from tests.verilog.test_elaborate_helpers import depends_on_unknown, elaborate_text, outputs
+from tests.verilog.test_elaborate_helpers import elaborate_text, outputs
 
 
 def one(tmp_path, ports: str, body: str, **inputs: int) -> dict[str, int]:

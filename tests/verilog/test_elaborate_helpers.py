@@ -48,7 +48,7 @@ def icarus_outputs(source: Path, top: str, model: Model, vectors: list[dict[str,
     """Run ``vectors`` through Icarus; per vector, each output's hex text as printed by
     ``%h`` (x digits included)."""
     from tests.support.icarus import run_icarus
-    lines = [f"module bench;"]
+    lines = ["module bench;"]
     for port in model.inputs:
         lines.append(f"  reg [{port.width - 1}:0] {port.name};")
     for port in model.outputs:

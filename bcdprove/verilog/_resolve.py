@@ -128,7 +128,8 @@ class Resolver:
                 bit = max(lo, other.lo)
                 index = var.lsb + bit if var.msb >= var.lsb else var.lsb - bit
                 label = var.name if var.width == 1 else f"{var.name}[{index}]"
-                if var.is_variable and what == other.what == "always block":
+                blocks = ("always block", "clocked always block")
+                if var.is_variable and what in blocks and other.what in blocks:
                     # Several combinational blocks may use one variable as scratch (a shared
                     # `integer i` loop counter); only a read from outside them is ambiguous.
                     var.shared = DesignError(
@@ -176,10 +177,10 @@ class Resolver:
             return g.extract(var.node, hi, lo)
         if var.fixed is not None:
             return g.extract(var.fixed, hi, lo)
-        if var.state is not None:
-            return g.extract(var.state, hi, lo)
         if var.shared is not None:
             raise var.shared
+        if var.state is not None:
+            return g.extract(var.state, hi, lo)
         pieces: list[Node] = []
         bit = hi
         ordered = sorted((d for d in var.drivers if d.lo <= hi and lo <= d.hi),

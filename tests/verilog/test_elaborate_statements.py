@@ -238,3 +238,19 @@ end
 endmodule
 """, name="case.sv")
     assert outputs(model, a=0b0001)["y"] == 0b1000
+
+
+def test_loop_counter_shared_by_a_clocked_and_a_combinational_block(tmp_path):
+    # common practice: one `integer i` serves as loop counter in several always blocks
+    model = elaborate_text(tmp_path, """module dut(input clk, input [3:0] a, output reg [3:0] y, q);
+integer i;
+always @* begin
+  for (i = 0; i < 4; i = i + 1) y[i] = a[3 - i];
+end
+always @(posedge clk) begin
+  for (i = 0; i < 4; i = i + 1) q[i] <= a[i];
+end
+endmodule
+""")
+    assert outputs(model, a=0b0011)["y"] == 0b1100
+    assert any("several always blocks" in note for note in model.notes)

@@ -57,7 +57,7 @@ class Ports:
         etype = expressions.type_of(expr)
         if etype.width != var.width and not _unsized(expr):
             self.note(f"port width mismatch: `{var.name}` is {var.width} bits, connected to "
-                      f"{etype.width} bits (clause 12.3.10: extended or truncated)", inst)
+                      f"{etype.width} bits (clause 12.3.9.2: extended or truncated)", inst)
 
         def produce() -> Node:
             # Icarus Verilog 11 (measured): the connected expression is self-determined,
@@ -72,7 +72,7 @@ class Ports:
         width = sum(t.width for t in targets)
         if width != var.width:
             self.note(f"port width mismatch: output `{var.name}` is {var.width} bits, connected "
-                      f"to {width} bits (clause 12.3.10: extended or truncated)", inst)
+                      f"to {width} bits (clause 12.3.9.2: extended or truncated)", inst)
         self.continuous(scope, expr, None, inst, "port connection",
                         source=lambda: (self.read(var), var.signed))
 

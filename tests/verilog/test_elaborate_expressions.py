@@ -1,4 +1,8 @@
-"""Expressions: widths (IEEE 1364-2005 clause 5.4), signedness (5.5), operators (5.1), literals (3.5)."""
+"""Expressions: widths (IEEE 1364-2005 clause 5.4), signedness (5.5), operators (5.1), literals (3.5).
+
+Clause numbers are cited from memory of IEEE 1364-2005; expected values come from Python
+reference code or were printed by Icarus Verilog 11, as noted beside each check.
+"""
 from __future__ import annotations
 
 import pytest
@@ -119,10 +123,16 @@ def test_shifts(tmp_path, expr, a, expected):
     assert got["y"] == expected
 
 
+_A = 0b1011
+_PARITY = bin(_A).count("1") % 2
+
+
 @pytest.mark.parametrize("expr, expected", [
-    # clause 5.1.11 reductions on 4'b1011; Python reference: bin(x).count("1")
-    ("&a", 0), ("~&a", 1), ("|a", 1), ("~|a", 0), ("^a", 1), ("~^a", 0), ("!a", 0),
-    ("a && 0", 0), ("a || 0", 1), ("~a", 0b0100), ("a ~^ 4'b1111", 0b1011), ("a ^~ 4'b0", 0b0100),
+    # clause 5.1.11 reductions and 5.1.9 logical operators on 4'b1011; Python reference
+    ("&a", int(_A == 0xF)), ("~&a", int(_A != 0xF)), ("|a", int(_A != 0)),
+    ("~|a", int(_A == 0)), ("^a", _PARITY), ("~^a", 1 - _PARITY), ("!a", int(not _A)),
+    ("a && 0", int(bool(_A) and False)), ("a || 0", int(bool(_A) or False)),
+    ("~a", ~_A & 0xF), ("a ~^ 4'b1111", ~(_A ^ 0xF) & 0xF), ("a ^~ 4'b0", ~(_A ^ 0) & 0xF),
 ])
 def test_reductions_and_logical_operators(tmp_path, expr, expected):
     got = one(tmp_path, "input [3:0] a, output [3:0] y", f"assign y = {expr};", a=0b1011)

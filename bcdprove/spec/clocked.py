@@ -152,6 +152,8 @@ def infer_protocol(model: Model, *, clock: Optional[str] = None, reset: Optional
     or the protocol cannot be told.
     """
     reasons: list[str] = []
+    if not model.registers:
+        model_clock(model)               # says there is nothing to clock
     if clock is not None:
         _port(model, clock, "input", "--clock")
     chosen_clock = model_clock(model, clock)

@@ -145,8 +145,11 @@ def test_gate_primitives(tmp_path):
   nand (y6, a, b);
 endmodule
 """)
-    got = outputs(model, a=1, b=1, c=0)
-    assert (got["y1"], got["y2"], got["y3"], got["y4"], got["y5"], got["y6"]) == (0, 0, 1, 0, 0, 0)
+    for a, b, c in ((1, 1, 0), (1, 1, 1), (0, 1, 0), (0, 0, 0)):
+        got = outputs(model, a=a, b=b, c=c)
+        # Python reference for each primitive's truth table
+        expected = (a & b & c, 1 - (a | b), 1 - (a ^ b), 1 - a, 1 - a, 1 - (a & b))
+        assert (got["y1"], got["y2"], got["y3"], got["y4"], got["y5"], got["y6"]) == expected
 
 
 def test_implicit_net_from_a_port_connection(tmp_path):

@@ -73,6 +73,19 @@ class _Module:
                         "(", expr, f" {self.rng.choice('^+-')} ", plain, ")")
         return self.b.site(expr)
 
+    def port_argument(self) -> str:
+        """A port connection in braces, so that it is self-determined and unsigned.
+
+        Icarus 11 evaluates a port expression at its own width, not the port's as clause
+        12.3.11 says, and ignores $unsigned there (regressions.py): only a connection whose
+        meaning does not depend on either can be refereed by it.
+        """
+        maker = self.maker(self.inputs)
+        expr = maker.expression(2)
+        if expr.unsized:
+            expr = maker.operand_leaf_sized()
+        return self.b.site(node(expr.width, False, "{", expr, "}", kind="concat", unsized="no"))
+
     def new_value(self, stem: str, kind: str, width: int | None = None) -> Operand:
         rng = self.rng
         width = width or rng.choice([1, 3, 4, 7, 8, 12, 16, 33, 64, rng.randint(1, 100)])
@@ -189,10 +202,14 @@ class _Module:
         count = rng.randint(1, 6)
         slice_width = rng.randint(1, 4)
         out = self.new_value("gw", "wire", count * slice_width)
-        extras = [leaf(gen, 32, True, unsized=True)]   # Icarus: a genvar has no size
+        # the genvar itself is only used as an index: Icarus 11 widens arithmetic on it
+        # without loss, past the 32 bits of an integer (regressions.py)
+        extras = []
         sources = [o for o in self.inputs if o.low == 0 and not o.ascending and o.width >= count]
         if sources:
             extras.append(leaf(f"{rng.choice(sources).name}[{gen}]", 1))
+        else:
+            extras.append(leaf(f"{self.inputs[0].name}[{self.inputs[0].lsb}]", 1))
         base = f"{gen} * {slice_width}" if out.low == 0 else f"{gen} * {slice_width} + {out.low}"
         lines = [f"  genvar {gen};", "  generate",
                  f"    for ({gen} = 0; {gen} < {count}; {gen} = {gen} + 1) begin : blk{gen}"]
@@ -239,11 +256,7 @@ class _Module:
         for n, w in enumerate(widths):
             out = self.new_value("sq", "wire", w)
             k_value = rng.choice(["0", "1", "3", "-2", "4'd9", "3'sd3", "7"])
-            # $unsigned makes the connection self-determined: Icarus 11 evaluates a port
-            # expression at its own width, not the port's as clause 12.3.11 says
-            # (regressions.py), so only self-determined connections can be refereed
-            x_arg = f"$unsigned({self.expr(2, self.inputs)})"
-            z_arg = f"$unsigned({self.expr(2, self.inputs)})"
+            x_arg, z_arg = self.port_argument(), self.port_argument()
             inst = f"u{self.serial}_{n}"
             if rng.random() < 0.5:
                 self.body.append(f"  {sub} #(.W({w}), .K({k_value})) {inst} (.x({x_arg}), .z({z_arg}), .q({out.name}));")

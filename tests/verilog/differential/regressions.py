@@ -193,6 +193,38 @@ REGRESSIONS = [
         icarus_prints={"y": format(7, "065b")},
     ),
     Regression(
+        "unsigned_cast_on_a_port_connection",
+        "module reg_portcast_sub(input [5:0] x, output [5:0] q);\n"
+        "  assign q = x;\n"
+        "endmodule\n"
+        "module reg_portcast(input signed [3:0] a, output [5:0] y);\n"
+        "  reg_portcast_sub u (.x($unsigned(a)), .q(y));\n"
+        "endmodule\n",
+        {"a": 0b1111},
+        {"y": "001111"},
+        "IEEE 1364-2005 clause 5.5.3: $unsigned(a) is unsigned, so it is zero-extended to "
+        "the 6-bit port (clause 12.3.11: as in an assignment); Icarus sign-extends",
+        icarus_prints={"y": "111111"},
+    ),
+    Regression(
+        "genvar_in_a_product",
+        "module reg_genvar(input [61:0] a, output [2:0] y);\n"
+        "  genvar g;\n"
+        "  generate\n"
+        "    for (g = 0; g < 3; g = g + 1) begin : slot\n"
+        "      assign y[g] = (a * g) >> 62;\n"
+        "    end\n"
+        "  endgenerate\n"
+        "endmodule\n",
+        {"a": (1 << 62) - 1},
+        {"y": "".join(str((((1 << 62) - 1) * g & ((1 << 62) - 1)) >> 62) for g in (2, 1, 0))},
+        "IEEE 1364-2005 clause 5.4.1: the product is as wide as its widest operand, 62 bits "
+        "(a genvar is read as an integer, clause 12.4.1 as recalled from memory), so nothing "
+        "is left above bit 61 (Python's int as reference code); Icarus widens the product "
+        "for the genvar without loss and gives 1 for g = 2",
+        icarus_prints={"y": "100"},
+    ),
+    Regression(
         "port_expression_sized_by_the_port",
         "module reg_portctx_sub(input [7:0] x, output [7:0] q);\n"
         "  assign q = x;\n"

@@ -71,6 +71,8 @@ class UnrolledModel:
     registers: list[dict[str, Node]] = field(default_factory=list)
     outputs: list[dict[str, Node]] = field(default_factory=list)
     initial: dict[str, Node] = field(default_factory=dict)
+    fresh: dict[tuple[int, int, int], Node] = field(default_factory=dict)
+    selective: bool = False    # only the cone of the outputs asked for was built
 
     @property
     def input_names(self) -> list[str]:
@@ -94,12 +96,10 @@ class UnrolledModel:
             nodes += list(self.outputs[t].values())
         return nodes
 
-    def trace(self, values: Mapping[int, int], default: int = 0) -> list[CycleValues]:
-        """Concrete values of every cycle for leaf values ``values`` (leaf id -> int).
-
-        Leaves missing from ``values`` take ``default`` (the value a report or test bench
-        then shows and drives for them).
-        """
+    def node_trace(self, values: Mapping[int, int], default: int = 0) -> list[CycleValues]:
+        """Values of the nodes built, per cycle, for leaf values ``values`` (leaf id -> int);
+        leaves missing from ``values`` take ``default``.  A selective unrolling lacks the
+        registers and outputs outside the cone it was asked for."""
         env: dict[int, int] = {}
         for node in topological(self.all_nodes()):
             if node.op == Op.CONST:
@@ -114,6 +114,28 @@ class UnrolledModel:
                             {n: env[v.id] for n, v in self.registers[t].items()},
                             {n: env[v.id] for n, v in self.outputs[t].items()})
                 for t in range(len(self.outputs))]
+
+    def trace(self, values: Mapping[int, int], default: int = 0) -> list[CycleValues]:
+        """Every input, register and output of every cycle for leaf values ``values``.
+
+        The inputs come from the nodes built (a protocol's drive included); registers and
+        outputs from a cycle-by-cycle scalar run of the source model with the same timing,
+        which also fills in what a selective unrolling did not build.  Every value the
+        nodes do hold must agree with that run (AssertionError otherwise: the unrolling and
+        the run disagree, a bug).
+        """
+        built = self.node_trace(values, default)
+        inputs = [c.inputs for c in built]
+        run = _concrete_run(self, inputs, values, default)
+        for mine, theirs in zip(built, run):
+            for name, value in list(mine.registers.items()) + list(mine.outputs.items()):
+                other = theirs.registers.get(name) if name in mine.registers else None
+                if name in mine.outputs:
+                    other = theirs.outputs[name]
+                if value != other:
+                    raise AssertionError(f"cycle {mine.cycle}: {name} is {value} in the unrolled "
+                                         f"model but {other} in the cycle-by-cycle run")
+        return run
 
     def initial_values(self, values: Mapping[int, int], default: int = 0) -> dict[str, int]:
         """Power-up register values for leaf values ``values`` (for a test bench)."""
@@ -165,7 +187,9 @@ def _phases(registers: list[Register]) -> list[str]:
 class _Unroller:
     """Builds the cycles one after another (the drive of a cycle may read earlier ones)."""
 
-    def __init__(self, model: Model, clock: str, drive: Optional[Drive]):
+    def __init__(self, model: Model, clock: str, drive: Optional[Drive],
+                 needed: Optional[Mapping[int, set[str]]] = None):
+        self.needed = needed
         self.source = model
         self.graph = model.graph
         self.clock = clock
@@ -183,6 +207,39 @@ class _Unroller:
                                        f"(outside an edge event); bcdprove models the clock only "
                                        f"as the edge that ends a cycle")
         self.free_leaves = [leaf for leaf in cone if leaf.op == Op.FREE]
+        self.selective = needed is not None and len(self.phases) == 1
+
+    def _registers_read(self, roots: list[Node]) -> set[str]:
+        return {leaf.params[0] for leaf in leaves(roots) if leaf.op == Op.STATE}
+
+    def _needs(self, cycles: int) -> list[set[str]]:
+        """Registers to build in each cycle so that the outputs asked for can be built:
+        backwards from the last cycle, each needed register needs what its next state reads
+        (and what its asynchronous reset reads) one cycle earlier."""
+        by_name = {r.name: r for r in self.source.registers}
+        reads = {}
+        for register in self.source.registers:
+            roots = [register.next]
+            if register.reset is not None:
+                roots += [register.reset.value, self._reset_signal(register.reset.signal, register)]
+            reads[register.name] = self._registers_read(roots)
+        forcing = {r.name: self._registers_read([r.reset.value, self._reset_signal(
+            r.reset.signal, r)]) for r in self.resets}
+        outputs = {p.name: self._registers_read([p.node]) for p in self.outputs}
+        need: list[set[str]] = [set() for _ in range(cycles + 1)]
+        for t in reversed(range(cycles)):
+            here: set[str] = set()
+            for name in self.needed.get(t, ()):
+                here |= outputs[name]
+            for name in need[t + 1]:
+                here |= reads[name]
+            frontier = [n for n in here if n in forcing]
+            while frontier:                 # a forced value reads its reset's registers now
+                extra = forcing[frontier.pop()] - here
+                here |= extra
+                frontier += [n for n in extra if n in forcing]
+            need[t] = {n for n in here if n in by_name}
+        return need
 
     def _reset_nodes(self) -> list[Node]:
         nodes = []
@@ -212,7 +269,9 @@ class _Unroller:
                                            parameters=dict(self.source.parameters),
                                            notes=list(self.source.notes)),
                                source=self.source, cycles=cycles, clock=self.clock,
-                               half_cycles=len(self.phases) == 2)
+                               half_cycles=len(self.phases) == 2, selective=self.selective)
+        self.result = result
+        self.need = self._needs(cycles) if self.selective else None
         state: dict[str, Node] = {}
         for register in self.source.registers:
             if register.init is not None:
@@ -237,22 +296,33 @@ class _Unroller:
                                      f"{port.width}-bit port")
                 inputs[port.name] = node
             result.inputs.append(inputs)
+            if self.need is not None:
+                state = {n: v for n, v in state.items() if n in self.need[t]}
             state, shown, outputs = self._cycle(t, state, inputs)
             result.registers.append(shown)
             result.outputs.append(outputs)
         self._fill_model(result)
+        if self.selective:
+            stray = [leaf for leaf in leaves(result.all_nodes()) if leaf.op == Op.STATE]
+            if stray:
+                raise AssertionError(f"selective unrolling left {stray[0]!r} unbuilt")
         return result
 
     def _mapping(self, t: int, phase: int, state: Mapping[str, Node],
                  inputs: Mapping[str, Node]) -> dict[int, Node]:
         mapping: dict[int, Node] = {}
         for register in self.source.registers:
-            mapping[register.state.id] = state[register.name]
+            if register.name in state:
+                mapping[register.state.id] = state[register.name]
         for port in self.data_inputs:
             mapping[port.node.id] = inputs[port.name]
         suffix = f"cycle {t}" + (f", half {phase + 1}" if len(self.phases) == 2 else "")
+        fresh = self.result.fresh
         for leaf in self.free_leaves:
-            mapping[leaf.id] = self.graph.free(leaf.width, f"{leaf.params[1]} ({suffix})")
+            key = (t, phase, leaf.id)
+            if key not in fresh:
+                fresh[key] = self.graph.free(leaf.width, f"{leaf.params[1]} ({suffix})")
+            mapping[leaf.id] = fresh[key]
         return mapping
 
     def _with_resets(self, t: int, phase: int, state: dict[str, Node], inputs: Mapping[str, Node]
@@ -263,13 +333,14 @@ class _Unroller:
             return state, {}
         graph = self.graph
         mapping = self._mapping(t, phase, state, inputs)
+        present = [r for r in self.resets if r.name in state]
         roots = []
-        for register in self.resets:
+        for register in present:
             roots += [self._reset_signal(register.reset.signal, register), register.reset.value]
         built = substitute(graph, roots, mapping)
         forced = dict(state)
         active: dict[str, tuple[Node, Node]] = {}
-        for k, register in enumerate(self.resets):
+        for k, register in enumerate(present):
             level, value = built[2 * k], built[2 * k + 1]
             condition = level if register.reset.active_high else graph.not_(level)
             active[register.name] = (condition, value)
@@ -280,21 +351,25 @@ class _Unroller:
         graph = self.graph
         for phase, edge in enumerate(self.phases):
             state, active = self._with_resets(t, phase, state, inputs)
-            movers = [r for r in self.source.registers if r.edge == edge]
+            movers = [r for r in self.source.registers if r.edge == edge
+                      and (self.need is None or r.name in self.need[t + 1])]
             last = phase == len(self.phases) - 1
             roots = [r.next for r in movers]
+            shown_outputs = self.outputs
+            if self.need is not None:
+                shown_outputs = [p for p in self.outputs if p.name in self.needed.get(t, ())]
             if last:
-                roots += [p.node for p in self.outputs]
+                roots += [p.node for p in shown_outputs]
             built = substitute(graph, roots, self._mapping(t, phase, state, inputs))
             shown = dict(state)
-            following = dict(state)
+            following = {} if self.need is not None else dict(state)
             for register, node in zip(movers, built):
                 if register.name in active:
                     condition, value = active[register.name]
                     node = graph.ite(condition, value, node)
                 following[register.name] = node
             if last:
-                outputs = {p.name: n for p, n in zip(self.outputs, built[len(movers):])}
+                outputs = {p.name: n for p, n in zip(shown_outputs, built[len(movers):])}
                 return following, shown, outputs
             state = following
         raise AssertionError("a clocked model without edges")
@@ -311,10 +386,14 @@ class _Unroller:
                     model.ports.append(Port(cycle_name(port.name, t), "input", port.width,
                                             port.signed, node, port.loc, port.msb, port.lsb))
             for register in self.source.registers:
+                if register.name not in result.registers[t]:
+                    continue
                 name = cycle_name(register.name, t)
                 model.signals[name] = Signal(name, result.registers[t][register.name],
                                              "register", loc=register.loc)
             for port in self.outputs:
+                if port.name not in result.outputs[t]:
+                    continue
                 name = cycle_name(port.name, t)
                 node = result.outputs[t][port.name]
                 model.ports.append(Port(name, "output", port.width, port.signed, node, port.loc,
@@ -323,13 +402,70 @@ class _Unroller:
 
 
 def unroll(model: Model, cycles: int, clock: Optional[str] = None,
-           drive: Optional[Drive] = None) -> UnrolledModel:
+           drive: Optional[Drive] = None,
+           outputs: Optional[Mapping[int, set[str]]] = None) -> UnrolledModel:
     """``model`` over cycles ``0 .. cycles-1`` in the same graph (see the module docstring).
 
     ``clock`` names the clock input (default: the one clock of the registers).  ``drive(t,
     partial)`` returns nodes for some inputs of cycle ``t``; ``partial`` holds cycles before
-    ``t`` complete.  Raises BcdproveError / UnsupportedConstruct for a model without
-    registers, several clocks, a clock read as data or an unusable reset.
+    ``t`` complete.  ``outputs`` (cycle -> output names) builds only what those outputs read
+    (a selective unrolling: the other registers and outputs are left out, and a drive must
+    then not read outputs); a design on both clock edges is always unrolled whole.  Raises
+    BcdproveError / UnsupportedConstruct for a model without registers, several clocks, a
+    clock read as data or an unusable reset.
     """
     clock = model_clock(model, clock)
-    return _Unroller(model, clock, drive).run(cycles)
+    return _Unroller(model, clock, drive, outputs).run(cycles)
+
+
+def _concrete_run(unrolled: UnrolledModel, inputs: list[dict[str, int]],
+                  values: Mapping[int, int], default: int) -> list[CycleValues]:
+    """The source model run cycle by cycle on concrete values, with the timing of the
+    module docstring (an independent path from the unrolled nodes, for traces)."""
+    from .node import evaluate
+
+    source = unrolled.source
+    phases = _phases(source.registers)
+    state = {}
+    for register in source.registers:
+        node = unrolled.initial[register.name]
+        state[register.name] = node.value if node.op == Op.CONST else \
+            values.get(node.id, default) & mask(register.width)
+    ports = {p.name: p for p in source.ports}
+    resets = [r for r in source.registers if r.reset is not None]
+    frees = [leaf for leaf in leaves([r.next for r in source.registers]
+                                     + [p.node for p in source.outputs]
+                                     + [r.reset.value for r in resets]
+                                     + [ports[r.reset.signal].node if r.reset.signal in ports
+                                        else source.signals[r.reset.signal].node
+                                        for r in resets])
+             if leaf.op == Op.FREE]
+    run = []
+    for t, given in enumerate(inputs):
+        for phase, edge in enumerate(phases):
+            env = {r.state.id: state[r.name] for r in source.registers}
+            for name, value in given.items():
+                env[ports[name].node.id] = value
+            for leaf in frees:
+                fresh = unrolled.fresh.get((t, phase, leaf.id))
+                env[leaf.id] = values.get(fresh.id, default) if fresh is not None else default
+            active = {}
+            for register in resets:
+                signal = (ports[register.reset.signal].node if register.reset.signal in ports
+                          else source.signals[register.reset.signal].node)
+                level, value = evaluate([signal, register.reset.value], env)
+                if bool(level) == register.reset.active_high:
+                    active[register.name] = value
+                    state[register.name] = value
+                    env[register.state.id] = value
+            movers = [r for r in source.registers if r.edge == edge]
+            last = phase == len(phases) - 1
+            roots = [r.next for r in movers] + ([p.node for p in source.outputs] if last else [])
+            computed = evaluate(roots, env)
+            shown = dict(state)
+            for register, value in zip(movers, computed):
+                state[register.name] = active.get(register.name, value)
+            if last:
+                outputs = {p.name: v for p, v in zip(source.outputs, computed[len(movers):])}
+                run.append(CycleValues(t, dict(given), shown, outputs))
+    return run

@@ -504,8 +504,32 @@ class _Builder:
     def pipeline(self) -> list[ClockedProblem]:
         main = self._pipeline(fill=False)
         if self.protocol.kind == PIPELINE:
-            main.hunts.append(self._pipeline(fill=True))
+            main.hunts.append(self._filled(main))
         return [main]
+
+    def _filled(self, main: ClockedProblem) -> ClockedProblem:
+        """``main`` with the data input at every other cycle tied to the complement of x, by
+        substitution (a wide pipeline is not unrolled twice)."""
+        from dataclasses import replace
+
+        from ..model.node import substitute
+
+        g, unrolled, x = self.graph, main.unrolled, main.problem.x
+        present = main.present[0].cycle
+        complement = g.not_(x)
+        mapping = {unrolled.leaf(self.data, t).id: complement
+                   for t in range(unrolled.cycles) if t != present}
+        digits = substitute(g, main.problem.digits, mapping)
+        inputs = [dict(cycle) for cycle in unrolled.inputs]
+        for t, cycle in enumerate(inputs):
+            if t != present:
+                cycle[self.data] = complement
+        # Registers and outputs are left to the trace's cycle-by-cycle run.
+        shown = replace(unrolled, inputs=inputs, registers=[{} for _ in inputs],
+                        outputs=[{} for _ in inputs])
+        problem = replace(main.problem, digits=digits, _ok_node=None, _simulator=None,
+                          _encoder=None, _free=None, _order=None)
+        return replace(main, problem=problem, unrolled=shown, hunts=[], hunt_note=_FILL_NOTE)
 
     def _pipeline(self, fill: bool) -> ClockedProblem:
         g, protocol, data = self.graph, self.protocol, self.data
@@ -522,7 +546,10 @@ class _Builder:
                 driven[data] = g.not_(partial.leaf(data, begin))
             return driven
 
-        unrolled = unroll(self.model, last + 1, protocol.clock, drive)
+        read_cycles = range(latency, (2 * latency if latency else 1) + 1) if free_running \
+            else [begin + latency]
+        wanted = {t: set(self.outputs) for t in read_cycles}
+        unrolled = unroll(self.model, last + 1, protocol.clock, drive, outputs=wanted)
         present_at = 0 if free_running else begin
         x = unrolled.leaf(data, present_at)
         read_at = begin + latency if not free_running else latency

@@ -150,3 +150,15 @@ def test_too_few_digits_is_disproved_with_the_capacity():
     failing = result.failing
     assert failing.too_few_digits
     assert failing.verdict.counterexample.inputs[failing.clocked.problem.input_ports[0]] == 1000
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("top,parameters,options", [
+    ("meter_serial_bcd", {"W": 32, "D": 10}, {}),
+    ("scale_pipeline_bcd", {"W": 64, "D": 20}, {"latency": 65}),   # latency W + 1 (design header)
+])
+def test_wide_clocked_converters_are_proved(top, parameters, options):
+    from bcdprove.verilog import read_design
+
+    model = read_design([str(CLOCKED[top].path)], top, parameters)
+    assert check_clocked_model(model, timeout=300, **options).status == "proved"

@@ -211,3 +211,23 @@ def test_a_combinational_model_has_nothing_to_unroll(tmp_path):
     _, model = _model(tmp_path, text, "plain")
     with pytest.raises(BcdproveError, match="no registers"):
         unroll(model, 2)
+
+
+def test_selective_unrolling_builds_the_same_outputs_and_fewer_registers(tmp_path):
+    _, model = _model(tmp_path, COUNTER, "tick_counter")
+    whole = unroll(model, 5)
+    part = unroll(model, 5, outputs={4: {"sum"}})
+    assert part.selective and "shift" not in part.registers[3]
+    assert set(part.outputs[4]) == {"sum"} and not part.outputs[3]
+    stimulus = {whole.leaf("d", t).id: 3 * t + 1 for t in range(5)}
+    stimulus.update({whole.leaf("en", t).id: 1 for t in range(5)})
+    assert part.trace(stimulus) == whole.trace(stimulus)
+
+
+def test_trace_cross_checks_the_nodes_against_a_cycle_by_cycle_run(tmp_path):
+    _, model = _model(tmp_path, ASYNC, "async_hold")
+    unrolled = unroll(model, 4)
+    # Tamper with one built node: the trace must notice, not show either value silently.
+    unrolled.outputs[2]["q"] = model.graph.const(5, 4)
+    with pytest.raises(AssertionError, match="cycle 2: q"):
+        unrolled.trace({unrolled.leaf("arst_n", t).id: 1 for t in range(4)})

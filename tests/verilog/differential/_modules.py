@@ -70,7 +70,7 @@ class _Module:
             signal = self.rng.choice(maker.operands)
             plain = leaf(signal.name, signal.width, signal.signed)
             expr = node(max(expr.width, plain.width), expr.signed and plain.signed,
-                        "(", expr, f" {self.rng.choice('^+-')} ", plain, ")")
+                        "(", expr, f" {self.rng.choice('^+-')} ", plain, ")", kind="anchor")
         return self.b.site(expr)
 
     def port_argument(self) -> str:

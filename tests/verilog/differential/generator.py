@@ -42,7 +42,7 @@ class Expr:
     children: tuple = ()
     width: int = 1
     signed: bool = False
-    kind: str = "op"             # "leaf", "op", "concat"
+    kind: str = "op"             # "leaf", "op", "concat", "anchor" (see shrink_variants)
     frozen: bool = False
     x_source: bool = False
     unsized_rule: str = "any"    # leaf: "yes"/"no"; else "any" child, "first", "arms", "no"
@@ -131,6 +131,11 @@ def shrink_variants(expr: Expr) -> Iterator[Expr]:
     """
     if expr.frozen:
         return
+    if expr.kind == "anchor":
+        # an anchor keeps its last child (the signal that makes an always block run)
+        for variant in shrink_variants(expr.children[0]):
+            yield replace(expr, children=(variant,) + expr.children[1:])
+        return
     for child in expr.children:
         yield child
     if expr.kind != "leaf" or expr.render() not in ("1'b0", "1'b1"):
@@ -177,7 +182,12 @@ class Operand:
 
 
 def declared(name: str, width: int, signed: bool, rng: random.Random, offset_ranges: bool) -> Operand:
-    """An operand with a range [width-1:0], or (sometimes) shifted or ascending."""
+    """An operand with a range [width-1:0], or (sometimes) shifted or ascending.
+
+    A 1-bit operand is never signed: Icarus 11 reads a select of a 1-bit signed vector
+    as signed when it is a procedural shift amount (regressions.py).
+    """
+    signed = signed and width > 1
     if offset_ranges and rng.random() < 0.35:
         lsb = rng.choice([1, 2, 3, 5, -2, -4])
         if rng.random() < 0.4:

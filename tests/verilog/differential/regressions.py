@@ -225,6 +225,20 @@ REGRESSIONS = [
         icarus_prints={"y": "100"},
     ),
     Regression(
+        "shift_amount_selected_from_a_one_bit_signed_vector",
+        "module reg_onebit(input signed [0:0] s, input [7:0] a, output [7:0] y);\n"
+        "  reg [7:0] r;\n"
+        "  always @* r = a >> s[0];\n"
+        "  assign y = r;\n"
+        "endmodule\n",
+        {"s": 1, "a": 0xFF},
+        {"y": format(0xFF >> 1, "08b")},
+        "IEEE 1364-2005 clause 5.5.1: a bit-select is unsigned, so s[0] = 1 and "
+        "8'hff >> 1 = 8'h7f (clause 5.1.12; Python's int as reference code); Icarus "
+        "shifts everything out",
+        icarus_prints={"y": "00000000"},
+    ),
+    Regression(
         "port_expression_sized_by_the_port",
         "module reg_portctx_sub(input [7:0] x, output [7:0] q);\n"
         "  assign q = x;\n"

@@ -351,14 +351,18 @@ class _Builder:
     def _start(self, value: int) -> Node:
         return self.graph.const(value, self.model.port(self.protocol.start).width)
 
-    def _first_transaction(self, n: int, fill: bool = False) -> ClockedProblem:
+    def _first_transaction(self, n: int, fill: bool = False,
+                           first_value: Optional[int] = None) -> ClockedProblem:
         g, protocol, data = self.graph, self.protocol, self.data
 
         def drive(t: int, partial: UnrolledModel) -> dict[str, Node]:
             driven = self.constant_inputs(t)
             driven[protocol.start] = self._start(int(t == 1))
-            if protocol.hold_input and t >= 2:
-                driven[data] = partial.leaf(data, 1)
+            if t == 1 and first_value is not None:
+                driven[data] = g.const(first_value, self.width)
+            elif protocol.hold_input and t >= 2:
+                driven[data] = partial.leaf(data, 1) if first_value is None \
+                    else g.const(first_value, self.width)
             elif fill and t != 1:
                 driven[data] = g.not_(partial.leaf(data, 1))
             return driven
@@ -411,7 +415,15 @@ class _Builder:
                 second.hunts.append(self._second_at(n, done_at + 1, value,
                                                     fill=not self.protocol.hold_input))
             return second
-        return self._second_symbolic(n)
+        second = self._second_symbolic(n)
+        for value in sorted({1, mask(self.width)}):
+            # A fixed first value often fixes the first done cycle: then a quick hunt.
+            known, done_at = self._first_done(
+                self._first_transaction(n, first_value=value).unrolled, n)
+            if known and done_at is not None:
+                second.hunts.append(self._second_at(n, done_at + 1, value,
+                                                    fill=not self.protocol.hold_input))
+        return second
 
     def _second_at(self, n: int, begin: int, first_value: Optional[int] = None,
                    fill: bool = False) -> ClockedProblem:

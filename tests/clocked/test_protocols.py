@@ -162,3 +162,56 @@ def test_wide_clocked_converters_are_proved(top, parameters, options):
 
     model = read_design([str(CLOCKED[top].path)], top, parameters)
     assert check_clocked_model(model, timeout=300, **options).status == "proved"
+
+
+# A converter whose done comes after a data-dependent number of cycles (it counts the value
+# down, one BCD increment per cycle), so the second start cycle is not a constant.
+TALLY = """
+module tally_bcd #(parameter W = 4) (input clk, input rst, input start, input [W-1:0] value,
+                                     output reg done, output reg [7:0] bcd);
+    reg busy;
+    reg [W-1:0] left;
+    always @(posedge clk) begin
+        if (rst) begin
+            busy <= 1'b0; done <= 1'b0; left <= 0; bcd <= 8'd0;
+        end else if (start && !busy) begin
+            busy <= 1'b1; done <= 1'b0; left <= value; CLEAR
+        end else if (busy) begin
+            if (left == 0) begin
+                busy <= 1'b0; done <= 1'b1;
+            end else begin
+                left <= left - 1'b1;
+                bcd <= (bcd[3:0] == 4'd9) ? {bcd[7:4] + 4'd1, 4'd0} : {bcd[7:4], bcd[3:0] + 4'd1};
+            end
+        end
+    end
+endmodule
+"""
+
+
+def _tally(tmp_path, clear: bool, width: int):
+    from bcdprove.verilog import read_design
+
+    path = tmp_path / "tally_bcd.v"
+    path.write_text(TALLY.replace("CLEAR", "bcd <= 8'd0;" if clear else ""))
+    return read_design([str(path)], "tally_bcd", {"W": width})
+
+
+def test_data_dependent_done_second_conversion_uses_a_symbolic_start(tmp_path):
+    model = _tally(tmp_path, clear=False, width=4)
+    result = check_clocked_model(model, max_cycles=20)
+    first, second = result.obligations
+    assert first.verdict.status == "proved"
+    assert second.verdict.status == "disproved"
+    assert "`value@start2`" in second.main.problem.reasons[-1]    # the symbolic encoding
+    found = second.verdict.counterexample
+    x = found.inputs[second.clocked.problem.input_ports[0]]
+    assert found.expected == _digits(x, 2)
+    # The hunt fixed the first value at 1: its count is left in the digits (1 + x shown).
+    assert found.actual == _digits(1 + x, 2)
+
+
+@pytest.mark.slow
+def test_data_dependent_done_correct_converter_is_proved(tmp_path):
+    model = _tally(tmp_path, clear=True, width=3)
+    assert check_clocked_model(model, max_cycles=12).status == "proved"

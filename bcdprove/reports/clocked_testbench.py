@@ -39,22 +39,18 @@ def _clock_plan(unrolled) -> tuple[int, list[tuple[int, int]]]:
     return 0, [(9, 1), (10, 0)]
 
 
-def _digit_slice(problem, index: int) -> str:
+def _digit_slice(problem, source_model, index: int) -> str:
+    """The bench expression of digit ``index``: a slice of an output, zero-extended to 4 bits."""
     source = problem.digit_sources[index]
     name, _, bits = source.partition("[")
-    width = 4
     if bits:
         hi, _, lo = bits.rstrip("]").partition(":")
         width = int(hi) - int(lo) + 1
     else:
-        width = problem.model.port(f"{name}@0").width if _has(problem, f"{name}@0") else 4
+        width = source_model.port(name).width
     if width < 4:
         return f"{{{4 - width}'b0, {source}}}"
     return source
-
-
-def _has(problem, name: str) -> bool:
-    return any(p.name == name for p in problem.model.ports)
 
 
 def _runs(result, limit: int) -> list[tuple[object, dict[int, int], str]]:
@@ -127,9 +123,12 @@ def _check_lines(clocked, x: int, number: int, cycle: int, indent: str) -> list[
         return [f'{indent}$display("bcdprove testbench: FAIL run {number}: {x} needs '
                 f'{len(str(x))} digits, the design shows {problem.digit_count}");',
                 f"{indent}$finish;"]
-    checks = [f"{_digit_slice(problem, i)} !== 4'd{e}" for i, e in enumerate(expected)]
+    source_model = clocked.unrolled.source
+    checks = [f"{_digit_slice(problem, source_model, i)} !== 4'd{e}"
+              for i, e in enumerate(expected)]
     shown = " ".join("%0d" for _ in expected)
-    actual = ", ".join(_digit_slice(problem, i) for i in reversed(range(len(expected))))
+    actual = ", ".join(_digit_slice(problem, source_model, i)
+                       for i in reversed(range(len(expected))))
     want = " ".join(str(d) for d in reversed(expected))
     return [f"{indent}if ({' || '.join(checks)}) begin",
             f'{indent}  $display("bcdprove testbench: FAIL run {number}: {clocked.data_input} '

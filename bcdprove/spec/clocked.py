@@ -20,6 +20,17 @@ other leaf stays free: inputs at other cycles, power-up register values, unknown
 - free-running (``latency`` L and ``hold_input``): the input is held from cycle 0 on; the
   outputs must be right in cycle L and stay the same through cycle 2L (at least L + 1).
 
+Each obligation may carry *hunts*: the same obligation with the data input of every other
+cycle tied to the complement of the value (what a careful test bench drives to show that the
+design latched it) and, for a second conversion, the first value fixed.  A hunt's digits
+depend on few free leaves, so simulation settles it without a solver call per input; it
+can only disprove, and its counterexample replays like any other.
+
+The second conversion starts at a constant cycle when a three-valued simulation shows that
+the first ``done`` comes in the same cycle for every input and power-up state (a bit
+counter decides it, the usual case); otherwise the start cycle is symbolic, encoded cycle by
+cycle from the first ``done``, which is sound but much harder for the engines.
+
 Port names not given are inferred from common names (see :func:`infer_protocol`); every
 inference comes with a sentence for the report.
 """
@@ -514,7 +525,7 @@ class _Builder:
 
     # pipelines ----------------------------------------------------------------------------
     def pipeline(self) -> list[ClockedProblem]:
-        main = self._pipeline(fill=False)
+        main = self._pipeline()
         if self.protocol.kind == PIPELINE:
             main.hunts.append(self._filled(main))
         return [main]
@@ -543,7 +554,7 @@ class _Builder:
                           _encoder=None, _free=None, _order=None)
         return replace(main, problem=problem, unrolled=shown, hunts=[], hunt_note=_FILL_NOTE)
 
-    def _pipeline(self, fill: bool) -> ClockedProblem:
+    def _pipeline(self) -> ClockedProblem:
         g, protocol, data = self.graph, self.protocol, self.data
         latency = protocol.latency
         begin = 1 if protocol.reset is not None else 0
@@ -554,8 +565,6 @@ class _Builder:
             driven = self.constant_inputs(t)
             if free_running and t > 0:
                 driven[data] = partial.leaf(data, 0)
-            elif fill and t != begin:
-                driven[data] = g.not_(partial.leaf(data, begin))
             return driven
 
         read_cycles = range(latency, (2 * latency if latency else 1) + 1) if free_running \
@@ -588,8 +597,7 @@ class _Builder:
         one = g.const(1, 1)
         return ClockedProblem(title, problem, unrolled, protocol, data,
                               [ReadPoint(one, present_at)], [ReadPoint(one, read_at)],
-                              f"in cycle {read_at}", stable_until,
-                              hunt_note=_FILL_NOTE if fill else "")
+                              f"in cycle {read_at}", stable_until)
 
 
 def build_clocked_problems(model: Model, protocol: Protocol, *, inputs: Optional[list[str]] = None,

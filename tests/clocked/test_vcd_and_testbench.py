@@ -111,3 +111,29 @@ def test_testbench_reports_a_done_that_never_rises():
     result.overrides = dict(CLOCKED[top].parameters)
     output = run_icarus([CLOCKED[top].path], "bcdprove_tb", write_clocked_testbench(result))
     assert "done never rose within 5 cycles" in output, output
+
+
+# A one-stage registered converter with one port per digit, on either clock edge.
+REGISTERED = """
+module register_digits(input clk, input [5:0] level, output reg [3:0] ones, output reg [3:0] tens);
+    always @(EDGE clk) begin
+        ones <= level % 10;
+        tens <= level / TENS;
+    end
+endmodule
+"""
+
+
+@pytest.mark.parametrize("edge", ["posedge", "negedge"])
+@pytest.mark.parametrize("tens,verdict", [("10", "proved"), ("9", "disproved")])
+def test_digit_port_bench_on_either_edge_agrees_with_the_verdict(tmp_path, edge, tens, verdict):
+    from bcdprove.clocked import check_clocked_model
+    from bcdprove.verilog import read_design
+
+    path = tmp_path / "register_digits.v"
+    path.write_text(REGISTERED.replace("EDGE", edge).replace("TENS", tens))
+    model = read_design([str(path)], "register_digits", {})
+    result = check_clocked_model(model, latency=1, outputs=["ones", "tens"])
+    assert result.status == verdict
+    output = run_icarus([path], "bcdprove_tb", write_clocked_testbench(result))
+    assert ("PASS" if verdict == "proved" else "FAIL run 1") in output, output

@@ -215,3 +215,28 @@ def test_data_dependent_done_second_conversion_uses_a_symbolic_start(tmp_path):
 def test_data_dependent_done_correct_converter_is_proved(tmp_path):
     model = _tally(tmp_path, clear=True, width=3)
     assert check_clocked_model(model, max_cycles=12).status == "proved"
+
+
+RESET_PIPELINE = """
+module level_pipe(input clk, input arst_n, input en, input [5:0] level, output reg [7:0] bcd);
+    reg [5:0] held;
+    always @(posedge clk or negedge arst_n)
+        if (!arst_n) begin held <= 6'd0; bcd <= 8'd0; end
+        else if (en) begin held <= level; bcd <= ((held / 10) << 4) | (held % 10); end
+endmodule
+"""
+
+
+def test_pipeline_with_reset_and_a_tied_enable(tmp_path):
+    from bcdprove.verilog import read_design
+
+    path = tmp_path / "level_pipe.v"
+    path.write_text(RESET_PIPELINE)
+    model = read_design([str(path)], "level_pipe", {})
+    result = check_clocked_model(model, latency=2, ties={"en": 1})
+    assert result.status == "proved"
+    reasons = " | ".join(result.obligations[0].main.problem.reasons)
+    assert "reset `arst_n`: inferred (the asynchronous reset of the registers)" in reasons
+    assert "presented in cycle 1, outputs read in cycle 3" in reasons   # reset in cycle 0
+    # The enable left free can stall the pipeline: a counterexample, not a proof.
+    assert check_clocked_model(model, latency=2, inputs=["level"]).status == "disproved"

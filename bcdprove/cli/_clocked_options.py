@@ -38,6 +38,7 @@ from typing import Mapping, Optional, Sequence
 import typer
 
 from ..errors import BcdproveError
+from ._options import write_text_file
 
 CLOCK = typer.Option(None, "--clock", metavar="PORT",
                      help="Clocked check: the clock input (default: the registers' clock).")
@@ -93,14 +94,6 @@ def wants_clocked(model, args: ClockedArgs) -> bool:
     return bool(model.is_clocked or args.given())
 
 
-def _write(path: str, text: str, what: str) -> None:
-    try:
-        with open(path, "w", encoding="utf-8") as handle:
-            handle.write(text)
-    except OSError as error:
-        raise BcdproveError(f"cannot write the {what}: {error.strerror}", path) from None
-
-
 def run_clocked_check(model, args: ClockedArgs, *, inputs: Optional[Sequence[str]] = None,
                       outputs: Optional[Sequence[str]] = None, msd_first: bool = False,
                       max_input: Optional[int] = None, ties: Mapping[str, int] | None = None,
@@ -131,12 +124,12 @@ def run_clocked_check(model, args: ClockedArgs, *, inputs: Optional[Sequence[str
             written.append(("vcd", f"{args.vcd} not written: no failing run"))
         else:
             from ..reports.vcd import vcd_text
-            _write(args.vcd, vcd_text(failing.clocked.unrolled, failing.trace,
+            write_text_file(args.vcd, vcd_text(failing.clocked.unrolled, failing.trace,
                                       f"bcdprove: {failing.title} of {model.top}"), "VCD file")
             written.append(("vcd", f"{args.vcd} (the failing run, {len(failing.trace)} cycles)"))
     if testbench_path:
         from ..reports.clocked_testbench import write_clocked_testbench
-        _write(testbench_path, write_clocked_testbench(result), "test bench")
+        write_text_file(testbench_path, write_clocked_testbench(result), "test bench")
         written.append(("testbench", f"{testbench_path} (top module bcdprove_tb)"))
     if as_json:
         typer.echo(json.dumps(result.as_dict(), sort_keys=False))

@@ -61,3 +61,12 @@ def read_vector_file(path: str) -> list[tuple[int, dict[str, int]]]:
     if not vectors:
         raise BcdproveError("vector file holds no vectors", path)
     return vectors
+
+
+def write_text_file(path: str, text: str, what: str) -> None:
+    """Write a report file; a failure is an error naming the file, not a traceback."""
+    try:
+        with open(path, "w", encoding="utf-8") as handle:
+            handle.write(text)
+    except OSError as error:
+        raise BcdproveError(f"cannot write the {what}: {error.strerror}", path) from None

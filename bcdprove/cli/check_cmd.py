@@ -13,7 +13,8 @@ import typer
 from ..engines.smt_miter import DEFAULT_FORM
 from ..errors import BcdproveError
 from . import _design_options as opt
-from ._options import parse_assignments, parse_number
+from . import _clocked_options as clocked
+from ._options import parse_assignments, parse_number, write_text_file
 
 
 def register(app: typer.Typer) -> None:
@@ -25,14 +26,6 @@ def _names(items: Optional[List[str]]) -> Optional[List[str]]:
     if not items:
         return None
     return [name.strip() for item in items for name in item.split(",") if name.strip()]
-
-
-def _write(path: str, text: str, what: str) -> None:
-    try:
-        with open(path, "w", encoding="utf-8") as handle:
-            handle.write(text)
-    except OSError as error:
-        raise BcdproveError(f"cannot write the {what}: {error.strerror}", path) from None
 
 
 def check_command(
@@ -69,6 +62,15 @@ def check_command(
     testbench_path: Optional[str] = typer.Option(None, "--testbench", metavar="PATH",
                                                  help="Also write a self-checking Verilog test "
                                                       "bench."),
+    clock: Optional[str] = clocked.CLOCK,
+    reset: Optional[str] = clocked.RESET,
+    reset_low: Optional[bool] = clocked.RESET_LOW,
+    start: Optional[str] = clocked.START,
+    done: Optional[str] = clocked.DONE,
+    latency: Optional[int] = clocked.LATENCY,
+    hold_input: bool = clocked.HOLD_INPUT,
+    max_cycles: Optional[int] = clocked.MAX_CYCLES,
+    vcd: Optional[str] = clocked.VCD,
     debug: bool = opt.DEBUG,
 ) -> None:
     if timeout is not None and timeout <= 0:
@@ -78,6 +80,19 @@ def check_command(
     limit = parse_number(max_input, "--max-input") if max_input is not None else None
     started = time.monotonic()          # --timeout counts reading the design too
     model = opt.read(files, top, param, include_dir, define)
+    protocol = clocked.ClockedArgs(clock=clock, reset=reset, reset_low=reset_low, start=start,
+                                   done=done, latency=latency, hold_input=hold_input,
+                                   max_cycles=max_cycles, vcd=vcd)
+    if clocked.wants_clocked(model, protocol):
+        code = clocked.run_clocked_check(
+            model, protocol, inputs=_names(in_port), outputs=_names(out_ports),
+            msd_first=msd_first, max_input=limit, ties=parse_assignments(tie or [], "--tie"),
+            engine=engine, timeout=timeout, exhaustive_limit=exhaustive_limit, vectors=vectors,
+            seed=seed, smt_form=smt_form, as_json=as_json, junit=junit,
+            testbench_path=testbench_path, overrides=parse_assignments(param or [], "--param"))
+        if code:
+            raise SystemExit(code)
+        return
     from ..checking import check_model
 
     result = check_model(model, inputs=_names(in_port), outputs=_names(out_ports),
@@ -89,10 +104,10 @@ def check_command(
     result.overrides = parse_assignments(param or [], "--param")
     if junit:
         from ..reports.junit import check_junit
-        _write(junit, check_junit(result), "JUnit report")
+        write_text_file(junit, check_junit(result), "JUnit report")
     if testbench_path:
         from ..reports.testbench import write_testbench
-        _write(testbench_path, write_testbench(result), "test bench")
+        write_text_file(testbench_path, write_testbench(result), "test bench")
     if as_json:
         from ..reports.json_report import check_json
         typer.echo(check_json(result))

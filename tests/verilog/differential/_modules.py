@@ -68,9 +68,10 @@ class _Module:
         expr = maker.expression(depth)
         if reads_signal:
             signal = self.rng.choice(maker.operands)
+            op = self.rng.choice("^+-")
             plain = leaf(signal.name, signal.width, signal.signed)
             expr = node(max(expr.width, plain.width), expr.signed and plain.signed,
-                        "(", expr, f" {self.rng.choice('^+-')} ", plain, ")", kind="anchor")
+                        "(", expr, f" {op} ", plain, ")", kind="anchor", word_x=op != "^")
         return self.b.site(expr)
 
     def port_argument(self) -> str:

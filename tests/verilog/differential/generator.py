@@ -199,13 +199,16 @@ def declared(name: str, width: int, signed: bool, rng: random.Random, offset_ran
 # --------------------------------------------------------------------------- literals
 def _literal(rng: random.Random, allow_x: bool) -> Expr:
     roll = rng.random()
+    # Unsized numbers are written with their 32-bit size: Icarus 11 evaluates expressions
+    # over unsized numbers without loss, wider than clause 5.4.1's 32 bits (regressions.py),
+    # so it cannot referee them where a carry or a product passes bit 31
     if roll < 0.18:
         value = rng.choice([0, 1, 2, 3, 5, 7, 9, 10, 15, 16, 31, 100, 255, 1000, 65535, 2147483647])
-        return leaf(str(value), 32, True, unsized=True, literal=True)
+        return leaf(f"32'sd{value}", 32, True, literal=True)
     if roll < 0.24:
         value = rng.randrange(1 << 32)
         base = rng.choice("hdob")
-        return leaf(f"'{base}{_digits(value, base)}", 32, False, unsized=True, literal=True)
+        return leaf(f"32'{base}{_digits(value, base)}", 32, False, literal=True)
     width = rng.choice([1, 2, 3, 4, 5, 7, 8, 9, 12, 16, 31, 32, 33, 63, 64, 65, 100, 128, 130])
     value = _interesting(rng, width)
     signed = rng.random() < 0.3

@@ -379,6 +379,12 @@ class ExpressionMaker:
         if roll < 0.40:
             a, b = sub(), sub()
             op = rng.choice(_COMPARE + _LOGICAL)
+            if rng.random() < 0.3:
+                # an unsized number straight in a comparison: 32 bits, signed, sized to the
+                # other side (clauses 3.5.1, 5.4.1); nothing there for Icarus's lossless
+                # evaluation of unsized numbers to change
+                number = rng.choice(["0", "1", "5", "100", "2147483647", "'hffffffff", "'d7", "'b101"])
+                b = leaf(number, 32, not number.startswith("'"), unsized=True, literal=True)
             return node(1, False, "(", a, f" {op} ", b, ")", unsized="no", word_x=op[0] in "<>")
         if roll < 0.52:
             return self._shift(sub(), depth)

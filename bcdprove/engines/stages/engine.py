@@ -27,12 +27,14 @@ _REFINEMENTS = 64        # answers excluded one by one before a linked query is 
 _ZERO_SECONDS = 2.0      # a zero proof that is not quick is a cone that the cut does not bound
 
 
-def _spread(facts: dict[int, list], nodes: dict[int, Node], depth: int = 1000) -> None:
+def _spread(facts: dict[int, list], nodes: dict[int, Node], floor: int = -1,
+            depth: int = 1000) -> None:
     """Give the parts of a cut node its facts: the bits of ``concat(a, b)`` are the bits of
     ``a`` and ``b``, those of ``extract(m)`` bits of ``m``, the low bits of ``zext(a)`` those
     of ``a``.  Hash-consing folds a slice of a concatenation to the part itself, so the next
     stage usually reads the parts, not the node the mining named.  Leaves get no facts (the
-    input's bits must stay input bits)."""
+    input's bits must stay input bits), nor nodes made before ``floor`` (the previous
+    stage's; an earlier stage's nodes already hold facts of their own)."""
     frontier = list(nodes.values())
     for _ in range(depth):
         following = []
@@ -49,7 +51,7 @@ def _spread(facts: dict[int, list], nodes: dict[int, Node], depth: int = 1000) -
             elif node.op == Op.ZEXT:
                 pieces.append((node.args[0], 0))
             for part, offset in pieces:
-                if part.op in Op.LEAVES:
+                if part.op in Op.LEAVES or part.id <= floor:
                     continue
                 known = facts.get(part.id)
                 fresh = known is None
@@ -275,7 +277,7 @@ class _Run:
             for low, high in _runs(proposed):
                 for i, fact in self._prove_bits(builder, cut, stage, node, low, high, proposed):
                     bits[i] = fact
-        _spread(facts, nodes)
+        _spread(facts, nodes, floor=max(cut.facts, default=-1))
         return Cut(stage=stage, digits=digit_count(stage), facts=facts)
 
     def _prove_bits(self, builder: ConeBuilder, cut: Cut, stage: int, node: Node, low: int,

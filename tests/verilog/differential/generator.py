@@ -379,12 +379,6 @@ class ExpressionMaker:
         if roll < 0.40:
             a, b = sub(), sub()
             op = rng.choice(_COMPARE + _LOGICAL)
-            if rng.random() < 0.3:
-                # an unsized number straight in a comparison: 32 bits, signed, sized to the
-                # other side (clauses 3.5.1, 5.4.1); nothing there for Icarus's lossless
-                # evaluation of unsized numbers to change
-                number = rng.choice(["0", "1", "5", "100", "2147483647", "'hffffffff", "'d7", "'b101"])
-                b = leaf(number, 32, not number.startswith("'"), unsized=True, literal=True)
             return node(1, False, "(", a, f" {op} ", b, ")", unsized="no", word_x=op[0] in "<>")
         if roll < 0.52:
             return self._shift(sub(), depth)
@@ -460,9 +454,14 @@ class ExpressionMaker:
             amount_expr = self._expression(min(depth - 1, 1))
         finally:
             self._no_free = outer
-        if amount_expr.constant:
+        if amount_expr.constant or amount_expr.unsized:
             # Icarus 11 shifts a bit at a time: a huge constant amount hangs it
             amount_expr = leaf(f"8'd{rng.randint(0, 255)}", 8, literal=True)
+        # Braces change nothing for the standard (an amount is self-determined and read
+        # unsigned, clause 5.1.12) but keep Icarus 11 from reading a select of a signed
+        # vector as signed in a procedural shift (regressions.py)
+        amount_expr = node(amount_expr.width, False, "{", amount_expr, "}", kind="concat",
+                           unsized="no")
         return node(a.width, a.signed, "(", a, f" {op} ", amount_expr, ")", unsized="first",
                     word_x=True)
 

@@ -239,6 +239,20 @@ REGRESSIONS = [
         icarus_prints={"y": "00000000"},
     ),
     Regression(
+        "shift_amount_selected_whole_from_a_signed_vector",
+        "module reg_wholesel(input signed [1:0] s, input [7:0] a, output [7:0] y);\n"
+        "  reg [7:0] r;\n"
+        "  always @* r = a >>> s[1:0];\n"
+        "  assign y = r;\n"
+        "endmodule\n",
+        {"s": 3, "a": 0xFF},
+        {"y": format(0xFF >> 3, "08b")},
+        "IEEE 1364-2005 clauses 5.5.1 and 5.1.12: a part-select is unsigned and an amount is "
+        "read unsigned, so 8'hff >>> 3 = 8'h1f (a is unsigned: a logical shift; Python's int "
+        "as reference code); Icarus shifts everything out",
+        icarus_prints={"y": "00000000"},
+    ),
+    Regression(
         "port_expression_sized_by_the_port",
         "module reg_portctx_sub(input [7:0] x, output [7:0] q);\n"
         "  assign q = x;\n"

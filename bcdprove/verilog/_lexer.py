@@ -66,6 +66,9 @@ class ExtendedLexer(VerilogLexer):
     t_XOREQUALS = r"\^="
     t_LSHIFTEQUALS = r"<<="
     t_RSHIFTEQUALS = r">>="
+    # Both spellings of XNOR are one operator (IEEE 1364-2005 clause 5.1 operator table);
+    # pyverilog knows only `~^`, and read `^~a` as `^(~a)`, wrong for even widths.
+    t_XNOR = r"~\^|\^~"
 
     def __init__(self, error_func):
         super().__init__(error_func)

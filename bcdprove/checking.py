@@ -73,19 +73,20 @@ def check_model(model: Model, *, inputs: str | Sequence[str] | None = None,
                 max_input: int | None = None, ties: Mapping[str, int] | None = None,
                 engine: str = "auto", timeout: float | None = None, exhaustive_limit: int = 24,
                 random_vectors: int = 1 << 20, seed: int = 1,
-                smt_form: str = DEFAULT_FORM, started: float | None = None) -> CheckResult:
+                smt_form: str = DEFAULT_FORM, started: float | None = None,
+                progress=None) -> CheckResult:
     """Check ``model`` against the binary-to-BCD specification with engine ``engine``.
 
     ``timeout`` (seconds) bounds the whole check, both verdicts included, counted from
     ``started`` (a ``time.monotonic()`` reading, e.g. before the design was read; default:
     now); running out gives unknown with what was covered.  Other options: see
-    EngineOptions and build_problem.
+    EngineOptions and build_problem; ``progress(done, total)`` is told of stages proved.
     """
     started = time.monotonic() if started is None else started
     problem = build_problem(model, inputs=_as_list(inputs), outputs=_as_list(outputs),
                             msd_first=msd_first, max_input=max_input, ties=ties)
     options = EngineOptions(exhaustive_limit=exhaustive_limit, random_vectors=random_vectors,
-                            seed=seed, smt_form=smt_form)
+                            seed=seed, smt_form=smt_form, progress=progress)
     runner = make_engine(engine, options)
     budget = Budget(timeout, start=started)
     digits_check = None

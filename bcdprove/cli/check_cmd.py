@@ -28,6 +28,18 @@ def _names(items: Optional[List[str]]) -> Optional[List[str]]:
     return [name.strip() for item in items for name in item.split(",") if name.strip()]
 
 
+def _verdict_line(result) -> str:
+    """One line for --quiet: verdict, top, and the failing input when there is one."""
+    verdict = result.verdict
+    line = f"{verdict.status}: {result.model.top} ({verdict.engine}, {result.seconds:.2f} s)"
+    if verdict.counterexample is not None:
+        inputs = ", ".join(f"{k}={v}" for k, v in verdict.counterexample.inputs.items())
+        line += f"; counterexample {inputs}"
+    elif verdict.reason:
+        line += f"; {verdict.reason}"
+    return line
+
+
 def check_command(
     files: List[str] = opt.FILES,
     top: str = opt.TOP,
@@ -57,6 +69,8 @@ def check_command(
     smt_form: str = typer.Option(DEFAULT_FORM, "--smt-form",
                                  help="Miter formulation of the smt engine: divide or multiply."),
     as_json: bool = typer.Option(False, "--json", help="One JSON object on stdout, nothing else."),
+    quiet: bool = typer.Option(False, "--quiet", "-q",
+                               help="Only the verdict line on stdout; no progress bar."),
     junit: Optional[str] = typer.Option(None, "--junit", metavar="PATH",
                                         help="Also write a JUnit XML report."),
     testbench_path: Optional[str] = typer.Option(None, "--testbench", metavar="PATH",
@@ -94,13 +108,15 @@ def check_command(
             raise SystemExit(code)
         return
     from ..checking import check_model
+    from ._progress import stage_progress
 
-    result = check_model(model, inputs=_names(in_port), outputs=_names(out_ports),
-                         msd_first=msd_first, max_input=limit,
-                         ties=parse_assignments(tie or [], "--tie"), engine=engine,
-                         timeout=timeout, exhaustive_limit=exhaustive_limit,
-                         random_vectors=vectors, seed=seed, smt_form=smt_form,
-                         started=started)
+    with stage_progress(enabled=not (quiet or as_json)) as progress:
+        result = check_model(model, inputs=_names(in_port), outputs=_names(out_ports),
+                             msd_first=msd_first, max_input=limit,
+                             ties=parse_assignments(tie or [], "--tie"), engine=engine,
+                             timeout=timeout, exhaustive_limit=exhaustive_limit,
+                             random_vectors=vectors, seed=seed, smt_form=smt_form,
+                             started=started, progress=progress)
     result.overrides = parse_assignments(param or [], "--param")
     if junit:
         from ..reports.junit import check_junit
@@ -111,6 +127,8 @@ def check_command(
     if as_json:
         from ..reports.json_report import check_json
         typer.echo(check_json(result))
+    elif quiet:
+        typer.echo(_verdict_line(result))
     else:
         from ..reports.text import check_report
         typer.echo(check_report(result))

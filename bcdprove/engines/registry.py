@@ -7,6 +7,7 @@ missing or broken optional engine never stops the others.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Callable, Optional
 
 from ..errors import BcdproveError
 from .smt_miter import DEFAULT_FORM
@@ -23,6 +24,7 @@ class EngineOptions:
     hunt_vectors: int = 1 << 14         # vectors of auto's quick bug hunt
     seed: int = 1                       # random engine seed, for reproducible runs
     smt_form: str = DEFAULT_FORM        # smt miter formulation: divide | multiply
+    progress: Optional[Callable[[int, int], None]] = None   # stages done of total, for a bar
 
 
 def stage_engine(options: EngineOptions):
@@ -31,8 +33,8 @@ def stage_engine(options: EngineOptions):
         from .stages import StageEngine
     except ImportError:
         return None
-    # Its own defaults: none of the options above are about stage induction.
-    return StageEngine()
+    # Its own defaults otherwise: none of the other options are about stage induction.
+    return StageEngine(progress=options.progress)
 
 
 def make_engine(name: str, options: EngineOptions | None = None):

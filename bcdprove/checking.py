@@ -15,6 +15,7 @@ from typing import Mapping, Optional, Sequence
 
 from .engines.base import DISPROVED, PROVED, UNKNOWN, Budget, Verdict
 from .engines.registry import EngineOptions, make_engine
+from .engines.running import assert_sound, run_engine
 from .engines.smt_miter import DEFAULT_FORM
 from .model.design import Model
 from .spec.bin2bcd import Bin2BcdProblem, build_problem
@@ -91,12 +92,10 @@ def check_model(model: Model, *, inputs: str | Sequence[str] | None = None,
     budget = Budget(timeout, start=started)
     digits_check = None
     if problem.fits():
-        verdict = runner.run(problem, budget)
+        verdict = run_engine(runner, problem, budget)
     else:
         verdict, digits_check = _check_too_few_digits(problem, runner, budget)
-    _assert_sound(verdict)
-    if digits_check is not None:
-        _assert_sound(digits_check)
+        assert_sound(verdict)
     return CheckResult(model=model, problem=problem, verdict=verdict, engine=engine,
                        seconds=time.monotonic() - started, digits_check=digits_check,
                        timeout=timeout, notes=list(model.notes))
@@ -110,20 +109,9 @@ def _check_too_few_digits(problem: Bin2BcdProblem, runner, budget: Budget) -> tu
     shown.note = (f"{capacity:,} is the smallest value {problem.digit_count} digits cannot show; "
                   f"{problem.width} bits need {problem.needed_digits()} digits")
     below = problem.below_capacity()
-    digits_check = runner.run(below, budget)
+    digits_check = run_engine(runner, below, budget)
     verdict = Verdict(DISPROVED, runner.name, digits_check.seconds, counterexample=shown,
                       covered=f"too few digits: inputs {capacity:,} .. {problem.top_value:,} "
                               f"cannot be shown",
                       stats={"digits_check": digits_check.status})
     return verdict, digits_check
-
-
-def _assert_sound(verdict: Verdict) -> None:
-    """The last line of defence: no disproof leaves here without a replayed counterexample."""
-    if verdict.status == DISPROVED:
-        found = verdict.counterexample
-        if found is None or not found.replayed:
-            raise AssertionError(f"engine {verdict.engine} disproved without a replayed "
-                                 f"counterexample")
-    if verdict.status not in EXIT_CODES:
-        raise AssertionError(f"engine {verdict.engine} returned status {verdict.status!r}")

@@ -20,11 +20,12 @@ from typing import Mapping, Optional, Sequence
 
 from .engines.base import DISPROVED, PROVED, UNKNOWN, Budget, Verdict
 from .engines.registry import EngineOptions, make_engine
+from .checking import EXIT_CODES
+from .engines.running import assert_sound, run_engine
 from .model.design import Model
 from .model.unroll import CycleValues
 from .spec.clocked import ClockedProblem, Protocol, build_clocked_problems, infer_protocol
 
-EXIT_CODES = {PROVED: 0, DISPROVED: 1, UNKNOWN: 3}
 
 
 @dataclass
@@ -186,23 +187,22 @@ def _decide(item: ClockedProblem, runner, engine: str, options: EngineOptions,
     for hunt in item.hunts:
         if budget.expired():
             break
-        found = hunter.run(hunt.problem, budget)
-        _assert_sound(found)
+        found = run_engine(hunter, hunt.problem, budget)
         if found.status == DISPROVED:
             found.covered = f"hunt ({hunt.hunt_note}): {found.covered}"
             return _explained(Obligation(item, hunt, found))
-    verdict = runner.run(problem, budget)
+    verdict = run_engine(runner, problem, budget)
     if verdict.status == UNKNOWN and engine == "auto" and not budget.expired():
         from .engines.smt_miter import SmtEngine
 
-        second = SmtEngine(options.smt_form).run(problem, budget)
+        second = run_engine(SmtEngine(options.smt_form), problem, budget)
         if second.status != UNKNOWN:
             second.covered = f"{verdict.covered}; then {second.covered}"
             second.engine = f"auto ({second.engine})"
             verdict = second
         else:
             verdict.reason = f"{verdict.reason}; smt: {second.reason}"
-    _assert_sound(verdict)
+    assert_sound(verdict)
     return _explained(Obligation(item, item, verdict))
 
 
@@ -253,14 +253,3 @@ def _first_change(trace: list[CycleValues], clocked: ClockedProblem, read: int) 
         if any(trace[t].outputs[n] != trace[read].outputs[n] for n in names):
             return t
     return None
-
-
-def _assert_sound(verdict: Verdict) -> None:
-    """No disproof leaves here without a replayed counterexample."""
-    if verdict.status == DISPROVED:
-        found = verdict.counterexample
-        if found is None or not found.replayed:
-            raise AssertionError(f"engine {verdict.engine} disproved without a replayed "
-                                 f"counterexample")
-    if verdict.status not in EXIT_CODES:
-        raise AssertionError(f"engine {verdict.engine} returned status {verdict.status!r}")

@@ -25,6 +25,9 @@ class ReplayUndecided(Exception):
     input; the caller must not count that input as right (engines turn this into unknown)."""
 
 
+REPLAY_SOLVER_SECONDS = 60
+
+
 def decimal_digits(value: int, count: int) -> list[int]:
     """The ``count`` lowest decimal digits of ``value``, least significant first (from ``str``)."""
     text = str(value)[::-1]
@@ -260,6 +263,9 @@ class Bin2BcdProblem:
             self._encoder = Z3Encoder()
         encoder = self._encoder
         solver = z3.Solver(ctx=encoder.ctx)
+        # Bounded so a replay can never hang a check; past it the replay is undecided and
+        # the engine's answer becomes unknown, never a guess.
+        solver.set("timeout", REPLAY_SOLVER_SECONDS * 1000)
         solver.add(encoder.term(self.x) == x)
         by_id = {leaf.id: leaf for leaf in self.free_leaves()}
         for leaf_id, value in given.items():

@@ -101,11 +101,10 @@ def run_clocked_check(model, args: ClockedArgs, *, inputs: Optional[Sequence[str
                       exhaustive_limit: int = 24, vectors: int = 1 << 20, seed: int = 1,
                       smt_form: str = "multiply", as_json: bool = False,
                       junit: Optional[str] = None, testbench_path: Optional[str] = None,
+                      quiet: bool = False,
                       overrides: Mapping[str, int] | None = None) -> int:
     """Check ``model`` as a clocked converter, print the report, write the requested files;
     return the exit code (see the module docstring)."""
-    if junit:
-        raise BcdproveError("--junit is not available for clocked checks yet; use --json")
     from ..clocked import check_clocked_model
 
     result = check_clocked_model(model, clock=args.clock, reset=args.reset,
@@ -127,12 +126,23 @@ def run_clocked_check(model, args: ClockedArgs, *, inputs: Optional[Sequence[str
             write_text_file(args.vcd, vcd_text(failing.clocked.unrolled, failing.trace,
                                       f"bcdprove: {failing.title} of {model.top}"), "VCD file")
             written.append(("vcd", f"{args.vcd} (the failing run, {len(failing.trace)} cycles)"))
+    if junit:
+        from ..reports.junit import clocked_junit
+        write_text_file(junit, clocked_junit(result), "JUnit report")
+        written.append(("junit", f"{junit} (unknown is written as an error element)"))
     if testbench_path:
         from ..reports.clocked_testbench import write_clocked_testbench
         write_text_file(testbench_path, write_clocked_testbench(result), "test bench")
         written.append(("testbench", f"{testbench_path} (top module bcdprove_tb)"))
     if as_json:
         typer.echo(json.dumps(result.as_dict(), sort_keys=False))
+    elif quiet:
+        line = f"{result.status}: {model.top} (clocked, {result.seconds:.2f} s)"
+        if failing is not None:
+            found = failing.verdict.counterexample
+            line += (f"; {failing.main.title}: counterexample "
+                     + ", ".join(f"{k}={v}" for k, v in found.inputs.items()))
+        typer.echo(line)
     else:
         from ..reports.clocked_text import clocked_report
         typer.echo(clocked_report(result))

@@ -103,7 +103,7 @@ def check_command(
             msd_first=msd_first, max_input=limit, ties=parse_assignments(tie or [], "--tie"),
             engine=engine, timeout=timeout, exhaustive_limit=exhaustive_limit, vectors=vectors,
             seed=seed, smt_form=smt_form, as_json=as_json, junit=junit,
-            testbench_path=testbench_path, overrides=parse_assignments(param or [], "--param"))
+            testbench_path=testbench_path, quiet=quiet, overrides=parse_assignments(param or [], "--param"))
         if code:
             raise SystemExit(code)
         return

@@ -29,6 +29,20 @@ def _case(suite, name: str, classname: str, verdict: Verdict, detail: str) -> No
         out.text = verdict.covered
 
 
+def _document(checks: list[tuple[str, Verdict]], classname: str, seconds: float,
+              detail: str) -> str:
+    suite = ElementTree.Element(
+        "testsuite", name="bcdprove", tests=str(len(checks)),
+        failures=str(sum(v.status == DISPROVED for _, v in checks)),
+        errors=str(sum(v.status == UNKNOWN for _, v in checks)), skipped="0",
+        time=f"{seconds:.3f}")
+    for name, verdict in checks:
+        _case(suite, name, classname, verdict, detail)
+    ElementTree.indent(suite)
+    return '<?xml version="1.0" encoding="UTF-8"?>\n' + ElementTree.tostring(
+        suite, encoding="unicode") + "\n"
+
+
 def check_junit(result) -> str:
     """The XML document as text (with an XML declaration)."""
     from .text import check_report
@@ -38,14 +52,15 @@ def check_junit(result) -> str:
     if result.digits_check is not None:
         checks.append((f"{result.model.top}: bin2bcd below {problem.capacity()}",
                        result.digits_check))
-    suite = ElementTree.Element(
-        "testsuite", name="bcdprove", tests=str(len(checks)),
-        failures=str(sum(v.status == DISPROVED for _, v in checks)),
-        errors=str(sum(v.status == UNKNOWN for _, v in checks)), skipped="0",
-        time=f"{result.seconds:.3f}")
-    detail = check_report(result)
-    for name, verdict in checks:
-        _case(suite, name, f"bcdprove.{result.model.top}", verdict, detail)
-    ElementTree.indent(suite)
-    return '<?xml version="1.0" encoding="UTF-8"?>\n' + ElementTree.tostring(
-        suite, encoding="unicode") + "\n"
+    return _document(checks, f"bcdprove.{result.model.top}", result.seconds, check_report(result))
+
+
+def clocked_junit(result) -> str:
+    """The XML document of a clocked check: one testcase per protocol obligation (the first
+    conversion after reset, the second without a reset, a pipeline's latency, ...)."""
+    from .clocked_text import clocked_report
+
+    checks = [(f"{result.model.top}: bin2bcd, {o.main.title}", o.verdict)
+              for o in result.obligations]
+    return _document(checks, f"bcdprove.{result.model.top}", result.seconds,
+                     clocked_report(result))

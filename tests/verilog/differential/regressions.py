@@ -59,8 +59,7 @@ REGRESSIONS = [
         {"y": "1", "z": "1"},
         "IEEE 1364-2005 clause 5.1.11 and table 5-19: ^~ and ~^ are both reduction XNOR; "
         "two 1 bits give 1",
-        reader_bug="unary ^~ is read as reduction XOR (~^ is right)",
-        avoid=("unary-caret-tilde",),
+        fixed="204e4c6",
     ),
     Regression(
         "unary_reduction_xnor_of_parameter",
@@ -71,8 +70,7 @@ REGRESSIONS = [
         {"a": 0},
         {"y": "0000"},
         "IEEE 1364-2005 clause 5.1.11: reduction XNOR of 32-bit 7 (three 1 bits) is 0",
-        reader_bug="unary ^~ is read as reduction XOR (~^ is right)",
-        avoid=("unary-caret-tilde",),
+        fixed="204e4c6",
     ),
     Regression(
         "shift_amount_holding_a_division",

@@ -60,10 +60,13 @@ class Ports:
                       f"{etype.width} bits (clause 12.3.9.2: extended or truncated)", inst)
 
         def produce() -> Node:
-            # Icarus Verilog 11 (measured): the connected expression is self-determined,
-            # then extended by its own signedness or truncated to the port.
-            value, _ = expressions.self_value(expr)
-            return g.resize(value, var.width, etype.signed)
+            # IEEE 1364-2005 clause 12.3.9.2 / 12.3.11: an input port connection is a
+            # continuous assignment of the expression to the port, so the expression is sized
+            # as in an assignment (clause 5.4.2: at max(port, expression) width), then
+            # truncated.  Icarus Verilog 11 self-determines it instead (recorded in the
+            # differential regressions); the standard is what synthesis must follow.
+            width = max(var.width, etype.width)
+            return g.resize(expressions.value(expr, width, etype.signed), var.width)
         self.add_driver(var, 0, var.width - 1, produce, inst, "port connection")
 
     def _connect_output(self, scope: Scope, inst: Any, var: Var, expr: Any) -> None:

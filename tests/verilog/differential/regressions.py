@@ -263,7 +263,6 @@ REGRESSIONS = [
         "IEEE 1364-2005 clause 12.3.11: an expression on a port is sized and evaluated as "
         "in an assignment, so ~a is taken at the port's 8 bits (clause 5.4.2)",
         icarus_prints={"y": "00000001"},
-        reader_follows_icarus="043eccf: port connections are self-determined",
     ),
 ]
 

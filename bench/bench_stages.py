@@ -40,7 +40,7 @@ def _miter_seconds(top: str, width: int, ties: dict, timeout: float) -> tuple[st
     """One z3 query: some output digit differs from (x div 10**i) mod 10."""
     import z3
 
-    from bcdprove.model.smt import Z3Encoder
+    from bcdprove.model.smt import Z3Encoder, check_within
 
     problem = _problem(top, width, ties)
     encoder = Z3Encoder(z3.Context())
@@ -53,10 +53,8 @@ def _miter_seconds(top: str, width: int, ties: dict, timeout: float) -> tuple[st
         expected = z3.Extract(3, 0, z3.URem(z3.UDiv(wide, power), z3.BitVecVal(10, width + 8, ctx)))
         wrong.append(encoder.term(digit) != expected)
     solver = z3.Solver(ctx=ctx)
-    solver.set("timeout", int(timeout * 1000))
-    solver.add(z3.Or(*wrong))
     started = time.monotonic()
-    answer = solver.check()
+    answer = check_within(solver, timeout, [z3.Or(*wrong)])
     return str(answer), time.monotonic() - started
 
 

@@ -74,7 +74,7 @@ class SmtEngine:
     def run(self, problem, budget: Budget) -> Verdict:
         import z3
 
-        from ..model.smt import Z3Encoder
+        from ..model.smt import Z3Encoder, check_within
 
         started = time.monotonic()
         stats = {"form": self.form}
@@ -85,12 +85,11 @@ class SmtEngine:
             if left <= 0:
                 return Verdict(UNKNOWN, self.name, 0.0, covered="no query was posed",
                                reason="the time limit was reached", stats=stats)
-            solver.set("timeout", max(1, int(left * 1000)))
-        solver.add(_wrong_condition(problem, encoder, self.form))
+        assertions = [_wrong_condition(problem, encoder, self.form)]
         if problem.max_input is not None:
-            solver.add(z3.ULE(encoder.term(problem.x),
-                              z3.BitVecVal(problem.max_input, problem.width)))
-        answer = solver.check()
+            assertions.append(z3.ULE(encoder.term(problem.x),
+                                     z3.BitVecVal(problem.max_input, problem.width)))
+        answer = check_within(solver, left, assertions)
         seconds = time.monotonic() - started
         stats["solver_seconds"] = round(seconds, 3)
         range_text = (f"every input 0 .. {problem.top_value:,}" if problem.max_input is not None
@@ -114,7 +113,9 @@ class SmtEngine:
                            counterexample=found, covered=f"{range_text}, by one miter "
                                                          f"({self.form} form)", stats=stats)
         why = solver.reason_unknown()
-        reason = ("solver stopped at the time limit" if "timeout" in why or "canceled" in why
+        out_of_time = left is not None and time.monotonic() - started >= left * 0.95
+        reason = ("solver stopped at the time limit"
+                  if out_of_time or "timeout" in why or "canceled" in why
                   else f"solver gave up: {why}")
         return Verdict(UNKNOWN, self.name, seconds, covered=f"{range_text}: not decided",
                        reason=reason, stats=stats)

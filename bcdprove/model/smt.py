@@ -9,6 +9,8 @@ operators, whose zero-divisor results are the model's.
 """
 from __future__ import annotations
 
+import time
+
 from typing import Sequence
 
 import z3
@@ -135,3 +137,53 @@ _SHIFT = {
     Op.LSHR: z3.LShR,
     Op.ASHR: lambda v, s: v >> s,   # z3's >> on bit-vectors is the arithmetic shift
 }
+
+
+def check_within(solver, seconds: float | None, assertions: Sequence = ()):
+    """Add ``assertions`` to ``solver`` and check, coming back within about ``seconds``.
+
+    z3's ``timeout`` parameter is not looked at in every phase: seen here, adding a 24-bit
+    division miter ran for minutes in its assertion simplifier, where no timeout applies.  So
+    a timer interrupts the solver's context at the deadline, during the adding and during
+    the check; an interrupted or timed-out check answers ``unknown``.  ``seconds=None``: no
+    limit.
+    """
+    import threading
+
+    import z3
+
+    if seconds is None:
+        for assertion in assertions:
+            solver.add(assertion)
+        return solver.check()
+    deadline = time.monotonic() + seconds
+
+    def guarded(step):
+        left = deadline - time.monotonic()
+        if left <= 0:
+            return None
+        timer = threading.Timer(left + 0.5, solver.ctx.interrupt)
+        timer.daemon = True
+        timer.start()
+        try:
+            return step(left)
+        except z3.Z3Exception:
+            return None
+        finally:
+            timer.cancel()
+
+    def add_all(_left):
+        for assertion in assertions:
+            solver.add(assertion)
+        return True
+
+    def check(left):
+        solver.set("timeout", max(1, int(left * 1000)))
+        return solver.check()
+
+    if assertions and guarded(add_all) is None:
+        return z3.unknown
+    if deadline - time.monotonic() <= 0:
+        return z3.unknown
+    answer = guarded(check)
+    return z3.unknown if answer is None else answer

@@ -257,7 +257,7 @@ class Bin2BcdProblem:
                     unchosen: list[Node]) -> dict[int, int] | None:
         import z3
 
-        from ..model.smt import Z3Encoder
+        from ..model.smt import Z3Encoder, check_within
 
         if self._encoder is None:
             self._encoder = Z3Encoder()
@@ -265,7 +265,6 @@ class Bin2BcdProblem:
         solver = z3.Solver(ctx=encoder.ctx)
         # Bounded so a replay can never hang a check; past it the replay is undecided and
         # the engine's answer becomes unknown, never a guess.
-        solver.set("timeout", REPLAY_SOLVER_SECONDS * 1000)
         solver.add(encoder.term(self.x) == x)
         by_id = {leaf.id: leaf for leaf in self.free_leaves()}
         for leaf_id, value in given.items():
@@ -273,7 +272,7 @@ class Bin2BcdProblem:
                 solver.add(encoder.term(by_id[leaf_id]) == value)
         expected = self.expected_digits(x)
         solver.add(z3.Or(*[encoder.term(d) != e for d, e in zip(self.digits, expected)]))
-        answer = solver.check()
+        answer = check_within(solver, REPLAY_SOLVER_SECONDS)
         if answer == z3.unknown:
             raise ReplayUndecided(f"the solver could not settle input {x} with its unknown "
                                   f"values: {solver.reason_unknown()}")

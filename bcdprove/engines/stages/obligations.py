@@ -14,7 +14,7 @@ from typing import Optional
 import z3
 
 from ...model.node import Node, Op, topological
-from ...model.smt import Z3Encoder
+from ...model.smt import Z3Encoder, check_within
 
 PROVED = "unsat"
 FAILED = "sat"
@@ -94,10 +94,8 @@ class ObligationSolver:
         started = time.monotonic()
         solver.push()
         try:
-            if timeout is not None:
-                solver.set("timeout", max(1, int(timeout * 1000)))
             solver.add(self._encoder.term(bad) == z3.BitVecVal(1, 1, self.ctx))
-            answer = solver.check()
+            answer = check_within(solver, timeout)
             seconds = time.monotonic() - started
             if answer == z3.unsat:
                 return Outcome(PROVED, seconds)

@@ -43,7 +43,8 @@ class CheckResult:
         return EXIT_CODES[self.verdict.status]
 
 
-def _as_list(names: str | Sequence[str] | None) -> list[str] | None:
+def port_list(names: str | Sequence[str] | None) -> list[str] | None:
+    """Port names given as a list or as one comma-separated string; None when empty."""
     if names is None:
         return None
     if isinstance(names, str):
@@ -84,7 +85,7 @@ def check_model(model: Model, *, inputs: str | Sequence[str] | None = None,
     EngineOptions and build_problem; ``progress(done, total)`` is told of stages proved.
     """
     started = time.monotonic() if started is None else started
-    problem = build_problem(model, inputs=_as_list(inputs), outputs=_as_list(outputs),
+    problem = build_problem(model, inputs=port_list(inputs), outputs=port_list(outputs),
                             msd_first=msd_first, max_input=max_input, ties=ties)
     options = EngineOptions(exhaustive_limit=exhaustive_limit, random_vectors=random_vectors,
                             seed=seed, smt_form=smt_form, progress=progress)

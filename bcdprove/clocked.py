@@ -20,7 +20,7 @@ from typing import Mapping, Optional, Sequence
 
 from .engines.base import DISPROVED, PROVED, UNKNOWN, Budget, Verdict
 from .engines.registry import EngineOptions, make_engine
-from .checking import EXIT_CODES
+from .checking import EXIT_CODES, port_list
 from .engines.running import assert_sound, run_engine
 from .model.design import Model
 from .model.unroll import CycleValues
@@ -154,8 +154,8 @@ def check_clocked_model(model: Model, *, clock: Optional[str] = None, reset: Opt
     protocol = infer_protocol(model, clock=clock, reset=reset, reset_low=reset_low, start=start,
                               done=done, latency=latency, hold_input=hold_input,
                               max_cycles=max_cycles)
-    problems = build_clocked_problems(model, protocol, inputs=_as_list(inputs),
-                                      outputs=_as_list(outputs), msd_first=msd_first,
+    problems = build_clocked_problems(model, protocol, inputs=port_list(inputs),
+                                      outputs=port_list(outputs), msd_first=msd_first,
                                       max_input=max_input, ties=ties)
     options = EngineOptions(exhaustive_limit=exhaustive_limit, random_vectors=random_vectors,
                             seed=seed, smt_form=smt_form)
@@ -165,15 +165,6 @@ def check_clocked_model(model: Model, *, clock: Optional[str] = None, reset: Opt
     return ClockedResult(model=model, protocol=protocol, obligations=obligations, engine=engine,
                          seconds=time.monotonic() - started, timeout=timeout,
                          notes=list(model.notes))
-
-
-def _as_list(names) -> Optional[list[str]]:
-    if names is None:
-        return None
-    if isinstance(names, str):
-        names = names.split(",")
-    cleaned = [n.strip() for n in names if n.strip()]
-    return cleaned or None
 
 
 def _decide(item: ClockedProblem, runner, engine: str, options: EngineOptions,

@@ -37,7 +37,6 @@ from typing import Mapping, Optional, Sequence
 
 import typer
 
-from ..errors import BcdproveError
 from ._options import write_text_file
 
 CLOCK = typer.Option(None, "--clock", metavar="PORT",

@@ -25,8 +25,7 @@ from typing import Optional
 from ..engines.random_sim import corner_values
 from ..model.node import Op
 from ..spec.bin2bcd import decimal_digits
-
-TESTBENCH_MODULE = "bcdprove_tb"
+from .testbench import TESTBENCH_MODULE, dut_lines
 
 
 def _clock_plan(unrolled) -> tuple[int, list[tuple[int, int]]]:
@@ -87,18 +86,7 @@ def write_clocked_testbench(result, limit: int = 8) -> str:
              "// expected digits are the decimal digits of the value presented.",
              "`timescale 1ns/1ns",
              f"module {TESTBENCH_MODULE};"]
-    for p in model.ports:
-        if p.direction == "input":
-            lines.append(f"  reg [{p.width - 1}:0] {p.name};")
-        elif p.direction == "output":
-            lines.append(f"  wire [{p.width - 1}:0] {p.name};")
-    params = ""
-    if result.overrides:
-        # Only what the user overrode: the model's other parameters may be local ones.
-        params = " #(" + ", ".join(f".{k}({v})" for k, v in sorted(result.overrides.items())) + ")"
-    connections = ", ".join(f".{p.name}({p.name})" for p in model.ports
-                            if p.direction in ("input", "output"))
-    lines.append(f"  {model.top}{params} dut ({connections});")
+    lines.extend(dut_lines(model, result.overrides))
     lines.append("  integer bcdprove_runs;   // prefixed: a design port may be called runs")
     lines.append("  reg bcdprove_read;")
     start_level, changes = _clock_plan(unrolled_any)

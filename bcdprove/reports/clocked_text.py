@@ -10,10 +10,9 @@ from __future__ import annotations
 
 from typing import Mapping, Optional, Sequence
 
-from ..engines.base import DISPROVED, PROVED
+from .text import VERDICT_WORDS, verdict_lines
 from ..model.unroll import CycleValues, UnrolledModel
 
-_VERDICT_WORDS = {PROVED: "PROVED", DISPROVED: "DISPROVED", "unknown": "UNKNOWN"}
 
 
 def port_text(value: int, width: int) -> str:
@@ -121,16 +120,6 @@ def failure_lines(obligation) -> list[str]:
     return lines
 
 
-def _verdict_lines(label: str, verdict) -> list[str]:
-    lines = [f"{label:<12}{_VERDICT_WORDS.get(verdict.status, verdict.status)} "
-             f"({verdict.engine}, {verdict.seconds:.2f} s)"]
-    if verdict.covered:
-        lines.append(f"{'covered':<12}{verdict.covered}")
-    if verdict.reason:
-        lines.append(f"{'reason':<12}{verdict.reason}")
-    return lines
-
-
 def clocked_report(result) -> str:
     """The whole report as one string (no trailing newline)."""
     model, protocol = result.model, result.protocol
@@ -156,9 +145,9 @@ def clocked_report(result) -> str:
         if obligation.main is not result.obligations[0].main:
             for reason in main.problem.reasons[len(first.reasons) - 1:]:
                 lines.append(f"{'':<12}{reason}")
-        lines.extend(_verdict_lines("verdict", obligation.verdict))
+        lines.extend(verdict_lines("verdict", obligation.verdict))
     lines.append("")
-    lines.append(f"{'overall':<12}{_VERDICT_WORDS[result.status]} "
+    lines.append(f"{'overall':<12}{VERDICT_WORDS[result.status]} "
                  f"({result.seconds:.2f} s)")
     for note in result.notes:
         lines.append(f"{'note':<12}{note}")

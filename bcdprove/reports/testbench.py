@@ -60,27 +60,34 @@ def _digit_check(problem, index: int, expected: int) -> str:
     return f"{source} !== 4'd{expected}"
 
 
-def write_testbench(result, limit: int = 64) -> str:
-    """The test bench text (see the module docstring)."""
-    problem, model = result.problem, result.model
-    port = problem.input_ports[0]
-    lines = [f"// Self-checking test bench for `{model.top}`, written by bcdprove check.",
-             f"// Expected digits are the decimal digits of each input (least significant digit",
-             f"// in {'the low nibble (--msd-first reversed)' if problem.msd_first else 'the low bits'}).",
-             "`timescale 1ns/1ps",
-             f"module {TESTBENCH_MODULE};"]
+def dut_lines(model, overrides) -> list[str]:
+    """Declarations of a reg per input and a wire per output, and the instance ``dut``."""
+    lines = []
     for p in model.ports:
         if p.direction == "input":
             lines.append(f"  reg [{p.width - 1}:0] {p.name};")
         elif p.direction == "output":
             lines.append(f"  wire [{p.width - 1}:0] {p.name};")
     params = ""
-    if result.overrides:
+    if overrides:
         # Only what the user overrode: the model's other parameters may be local ones.
-        params = " #(" + ", ".join(f".{k}({v})" for k, v in sorted(result.overrides.items())) + ")"
+        params = " #(" + ", ".join(f".{k}({v})" for k, v in sorted(overrides.items())) + ")"
     connections = ", ".join(f".{p.name}({p.name})" for p in model.ports
                             if p.direction in ("input", "output"))
     lines.append(f"  {model.top}{params} dut ({connections});")
+    return lines
+
+
+def write_testbench(result, limit: int = 64) -> str:
+    """The test bench text (see the module docstring)."""
+    problem, model = result.problem, result.model
+    port = problem.input_ports[0]
+    lines = [f"// Self-checking test bench for `{model.top}`, written by bcdprove check.",
+             "// Expected digits are the decimal digits of each input (least significant digit",
+             f"// in {'the low nibble (--msd-first reversed)' if problem.msd_first else 'the low bits'}).",
+             "`timescale 1ns/1ps",
+             f"module {TESTBENCH_MODULE};"]
+    lines.extend(dut_lines(model, result.overrides))
     lines.append("  integer bcdprove_vectors;   // prefixed: a design port may be called vectors")
     lines.append("  initial begin")
     lines.append("    bcdprove_vectors = 0;")

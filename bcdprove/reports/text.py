@@ -7,7 +7,7 @@ from __future__ import annotations
 
 from ..engines.base import DISPROVED, PROVED, Counterexample, Verdict
 
-_VERDICT_WORDS = {PROVED: "PROVED", DISPROVED: "DISPROVED", "unknown": "UNKNOWN"}
+VERDICT_WORDS = {PROVED: "PROVED", DISPROVED: "DISPROVED", "unknown": "UNKNOWN"}
 
 
 def _digit_text(value: int | None) -> str:
@@ -58,8 +58,8 @@ def _place(position: int) -> str:
     return names[position] if position < len(names) else f"10^{position}"
 
 
-def _verdict_lines(label: str, verdict: Verdict) -> list[str]:
-    lines = [f"{label:<11} {_VERDICT_WORDS.get(verdict.status, verdict.status)} "
+def verdict_lines(label: str, verdict: Verdict) -> list[str]:
+    lines = [f"{label:<11} {VERDICT_WORDS.get(verdict.status, verdict.status)} "
              f"({verdict.engine}, {verdict.seconds:.2f} s)"]
     if verdict.covered:
         lines.append(f"{'covered':<12}{verdict.covered}")
@@ -93,10 +93,10 @@ def check_report(result) -> str:
     if result.timeout is not None:
         lines.append(f"{'time limit':<12}{result.timeout:g} s")
     lines.append(f"{'engine':<12}{result.engine}")
-    lines.extend(_verdict_lines("verdict", verdict))
+    lines.extend(verdict_lines("verdict", verdict))
     if result.digits_check is not None:
         check = result.digits_check
-        lines.extend(_verdict_lines(f"below {problem.capacity():,}", check))
+        lines.extend(verdict_lines(f"below {problem.capacity():,}", check))
         summary = {PROVED: "the digits present are right for every input below "
                            f"{problem.capacity():,}",
                    DISPROVED: "the digits present are also wrong below "

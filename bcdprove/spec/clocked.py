@@ -588,7 +588,7 @@ class _Builder:
                      f"and must stay the same through cycle {stable_until}"]
             title = "free-running conversion of a held input"
         else:
-            reset_text = f"reset in cycle 0, " if protocol.reset is not None else ""
+            reset_text = "reset in cycle 0, " if protocol.reset is not None else ""
             extra = [f"pipeline: {reset_text}`{data}` presented in cycle {present_at}, outputs "
                      f"read in cycle {read_at} (latency {latency}); every other input and the "
                      f"power-up state free"]

@@ -16,8 +16,8 @@ each case records whether it holds an x source (:attr:`Case.has_x_source`).
 from __future__ import annotations
 
 import random
-from dataclasses import dataclass, field, replace
-from typing import Iterator, Optional, Sequence
+from dataclasses import dataclass, replace
+from typing import Iterator, Sequence
 
 MAX_WIDTH = 300          # wider intermediate results are cut back to a leaf
 _MARK = "\x00"           # brackets a site number inside a template

@@ -43,7 +43,7 @@ def evaluate_vectors(model: Model, vectors: Sequence[dict[str, int]],
     values are taken as two's complement when they fit).  Register states and free values are
     unknown, so outputs that depend on them come back with unknown bits.
     """
-    from .model.simulate import Simulator, pack
+    from .model.simulate import Simulator, pack, unpack
 
     where = list(where) if where is not None else [(None, None)] * len(vectors)
     inputs = {p.name: p for p in model.inputs}
@@ -77,14 +77,15 @@ def evaluate_vectors(model: Model, vectors: Sequence[dict[str, int]],
             given[leaf.id] = [0] * leaf.width
             unknown[leaf.id] = [mask(lanes)] * leaf.width
     planes = simulator.run(lanes, given, unknown)
+    # Transpose each output's planes back to lane values once, not bit by bit per lane.
+    lane_values = [(unpack(result.value, lanes), unpack(result.unknown, lanes))
+                   for result in planes]
     results = []
     for lane, values in enumerate(checked):
         ins = {n: PortValue(values[n], 0, inputs[n].width) for n in inputs}
         outs = {}
-        for port, result in zip(outputs, planes):
-            value = sum(((plane >> lane) & 1) << i for i, plane in enumerate(result.value))
-            unk = sum(((plane >> lane) & 1) << i for i, plane in enumerate(result.unknown))
-            outs[port.name] = PortValue(value & ~unk, unk, port.width)
+        for port, (value, unk) in zip(outputs, lane_values):
+            outs[port.name] = PortValue(value[lane] & ~unk[lane], unk[lane], port.width)
         results.append(VectorResult(ins, outs))
     return results
 

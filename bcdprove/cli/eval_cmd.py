@@ -64,14 +64,8 @@ def eval_command(
     from ..evaluation import evaluate_vectors
     results = evaluate_vectors(model, [vector for _, vector in rows],
                                where=[(source, line) for line, _ in rows])
-    if as_json:
-        for result in results:
-            typer.echo(json.dumps(result.as_json()))
-        return
     from ..reports.values import vector_table
-    for note in model.notes:
-        typer.echo(f"note: {note}", err=True)
-    typer.echo(vector_table(model, results))
+    _show(model, results, as_json, lambda: vector_table(model, results))
 
 
 def _cycle_of(text: str, what: str, file, line) -> int:
@@ -134,11 +128,16 @@ def _eval_cycles(model, cycles: int, clock, set_, vectors, registers: bool, as_j
 
     settings, where = parse_cycle_settings(set_, vectors)
     results = evaluate_cycles(model, cycles, settings, clock, where)
+    from ..reports.clocked_text import evaluation_table
+    _show(model, results, as_json, lambda: evaluation_table(results, registers))
+
+
+def _show(model, results, as_json: bool, table) -> None:
+    """One JSON object per result, or the model's notes on stderr and ``table()``."""
     if as_json:
         for result in results:
             typer.echo(json.dumps(result.as_json()))
         return
-    from ..reports.clocked_text import evaluation_table
     for note in model.notes:
         typer.echo(f"note: {note}", err=True)
-    typer.echo(evaluation_table(results, registers))
+    typer.echo(table())

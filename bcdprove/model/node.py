@@ -12,7 +12,7 @@ so that choice is never visible in a Verilog result).
 from __future__ import annotations
 
 import itertools
-from typing import Iterable, Sequence
+from typing import Iterable, Optional, Sequence
 
 
 class Op:
@@ -466,10 +466,15 @@ def leaves(roots: Iterable[Node]) -> list[Node]:
     return [n for n in topological(roots) if n.op in (Op.INPUT, Op.STATE, Op.FREE)]
 
 
-def evaluate(roots: Sequence[Node], values: dict[int, int]) -> list[int]:
-    """Scalar evaluation: ``values`` maps leaf node ids to unsigned ints."""
+def evaluate(roots: Sequence[Node], values: dict[int, int],
+             order: Optional[Sequence[Node]] = None) -> list[int]:
+    """Scalar evaluation: ``values`` maps leaf node ids to unsigned ints.
+
+    ``order``, if given, is ``topological(roots)`` computed once by a caller that evaluates
+    the same roots many times.
+    """
     env: dict[int, int] = {}
-    for node in topological(roots):
+    for node in (topological(roots) if order is None else order):
         if node.op == Op.CONST:
             env[node.id] = node.value
         elif node.op in Op.LEAVES:

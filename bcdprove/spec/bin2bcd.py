@@ -16,7 +16,7 @@ from typing import Mapping
 from ..engines.base import Counterexample
 from ..errors import BcdproveError
 from ..model.design import Model
-from ..model.node import Node, Op, apply_op, leaves, mask, substitute, topological
+from ..model.node import Node, Op, evaluate, leaves, mask, substitute, topological
 from .ports import choose_input, choose_outputs
 
 
@@ -139,19 +139,7 @@ class Bin2BcdProblem:
             self._order = topological(self.digits)
         values = dict(free_values or {})
         values[self.x.id] = x
-        env: dict[int, int] = {}
-        for node in self._order:
-            if node.op == Op.CONST:
-                env[node.id] = node.value
-            elif node.op in Op.LEAVES:
-                if node.id not in values:
-                    raise KeyError(f"no value for leaf {node!r}")
-                env[node.id] = values[node.id] & mask(node.width)
-            else:
-                env[node.id] = apply_op(node.op, node.width, node.params,
-                                        [env[a.id] for a in node.args],
-                                        [a.width for a in node.args])
-        return [env[d.id] for d in self.digits]
+        return evaluate(self.digits, values, self._order)
 
     def shows_right(self, xs: list[int], free_values: Mapping[int, int] | None = None) -> list[bool]:
         """Per input in ``xs``: whether the digits are right for every choice of the free leaves

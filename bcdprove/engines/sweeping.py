@@ -37,7 +37,8 @@ from .difference_hunt import DifferenceHunt, corner_vectors
 from .pair_prover import PROVED as PAIR_PROVED, REFUTED, PairProver
 
 SIGNATURE_LANES = 1024
-LOCAL_LIMITS = (("meet", 16), ("meet", 120), 600)
+COMPLEMENTS = False
+LOCAL_LIMITS = (("meet", 16),)
 
 
 @dataclass
@@ -51,6 +52,8 @@ class SweepStats:
     constants: int = 0           # merged into a constant
     refinements: int = 0
     visited: int = 0
+    complement_skipped: int = 0
+    same_design: int = 0         # proposals skipped: both nodes serve one design only
 
     def as_dict(self) -> dict:
         return dict(self.__dict__)
@@ -91,6 +94,12 @@ class Sweeper:
         self.prover = prover
         self.order = topological(problem.roots)
         self.candidates = [n for n in self.order if n.op not in Op.LEAVES]
+        # Which design each node serves: 1 design A, 2 design B, 3 both (shared structure).
+        self.side: dict[int, int] = {}
+        for mark, roots in ((1, [o.node_a for o in problem.outputs]),
+                            (2, [o.node_b for o in problem.outputs])):
+            for node in topological(roots):
+                self.side[node.id] = self.side.get(node.id, 0) | mark
         self.stats = SweepStats(candidates=len(self.candidates))
         self.classes = _Classes()
         self.bits: dict[int, list[Node]] = {}      # original node id -> its bits, rebuilt
@@ -128,6 +137,7 @@ class Sweeper:
         """Visit every node in topological order, merging what can be proved equal."""
         representatives: dict[tuple, Node] = {}    # signature -> first original node of it
         kept: list[Node] = []            # visited original nodes that stayed their own class
+        members: dict[tuple, set[int]] = {}        # signature -> ids of its members' words
         for node in self.order:
             current = self._rebuild(node)
             if node.op in Op.LEAVES:
@@ -145,18 +155,35 @@ class Sweeper:
                     self.stats.constants += 1
                     continue
             key = self.classes.keys[node.id]
+            words = members.setdefault(key, set())
+            if current.id in words:
+                # Already the very node of an earlier member (hash-consing met it): merging it
+                # into the class representative instead would pull it away from that member.
+                self.stats.structural += 1
+                continue
+            words.add(current.id)
             rep = representatives.get(key)
             if rep is None:
                 representatives[key] = node
                 kept.append(node)
                 continue
+            if self.side[rep.id] | self.side[node.id] != 3:
+                # Both in one design: merging them helps that design only and may pull its
+                # structure away from the other's (a node replaced by an equal one that only
+                # a range argument shows equal); the aim is to meet the other design.
+                self.stats.same_design += 1
+                continue
             bits = self.bits[rep.id]
             if self.classes.phase[rep.id] != self.classes.phase[node.id]:
+                if not COMPLEMENTS:
+                    self.stats.complement_skipped += 1
+                    continue
                 bits = [self.graph.not_(b) for b in bits]
             if self.form.word(bits) is current:
                 self.stats.structural += 1
                 continue
             if self._try(node, current, bits, budget):
+                words.add(self.rebuilt[node.id].id)
                 continue
             kept.append(node)
             if self.classes.keys[node.id] != key:          # refined: rebuild the classes

@@ -79,8 +79,9 @@ def equiv_record(result) -> dict:
     port pairs, the counterexample (inputs and both designs' outputs, decimal strings) and
     the engine's stats (pairs proposed/proved/refuted, z3 queries, the slowest)."""
     problem, verdict = result.problem, result.verdict
-    record = _verdict_record(verdict)
-    record.pop("counterexample", None)
+    record = {"verdict": verdict.status, "engine": verdict.engine,
+              "seconds": round(verdict.seconds, 6), "covered": verdict.covered,
+              "reason": verdict.reason, "stats": _plain(verdict.stats)}
     record["engine_requested"] = result.engine
     record["seconds"] = round(result.seconds, 6)
     record["designs"] = {

@@ -112,3 +112,34 @@ def test_a_bad_map_names_the_missing_port(tmp_path):
     with pytest.raises(BcdproveError, match="has no port `nope`"):
         _equiv(tmp_path, hd.SUM_AB, "sum_ab", hd.SUM_RENAMED, "sum_renamed",
                mapping={"a": "nope"})
+
+
+def test_a_spent_time_limit_is_unknown_with_the_reason(tmp_path):
+    # The two outputs are different nodes, so without any solver time nothing is decided.
+    result = _equiv(tmp_path, hd.TIMES_TEN, "times_ten", hd.SHIFT_ADD_TEN, "shift_add_ten",
+                    timeout=1e-9)
+    assert result.verdict.status == "unknown"
+    assert result.exit_code == 3
+    assert "time limit" in result.verdict.reason
+
+
+def test_structurally_equal_outputs_need_no_solver(tmp_path):
+    # a + b and b + a are one node once both cones share the inputs (the graph orders the
+    # arguments of a commutative operator), so even a spent time limit proves them.
+    result = _equiv(tmp_path, hd.SUM_AB, "sum_ab", hd.SUM_BA, "sum_ba", timeout=1e-9)
+    assert result.verdict.status == PROVED
+
+
+def test_text_report_marks_the_differing_nibbles(tmp_path):
+    from bcdprove.reports.equiv_text import equiv_report
+
+    result = _equiv(tmp_path, hd.TIMES_TEN, "times_ten", hd.SHIFT_ADD_NINE, "shift_add_nine")
+    text = equiv_report(result)
+    # x = 1: 10 is 0x00a (nibbles 0 0 10), 9 is 0x009 (0 0 9): only the low nibble differs.
+    assert "input x = 1 (0x001)" in text
+    assert "times_ten       10  0x00a  nibbles  0  0 10" in text
+    assert "shift_add_nine   9  0x009  nibbles  0  0  9" in text
+    marks = text.splitlines()[text.splitlines().index(
+        "    shift_add_nine   9  0x009  nibbles  0  0  9") + 1]
+    assert marks.rstrip().endswith("^") and marks.count("^") == 1
+    assert text.rstrip().endswith("differing bits: 0, 1")   # 0b1010 ^ 0b1001 = 0b0011

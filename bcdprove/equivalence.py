@@ -14,6 +14,7 @@ from typing import Mapping, Optional, Sequence
 
 from .engines.base import DISPROVED, PROVED, UNKNOWN, Budget, Verdict
 from .engines.running import run_engine
+from .errors import BcdproveError
 from .model.design import Model
 from .spec.equivalence import EquivalenceProblem, build_equivalence
 
@@ -72,7 +73,10 @@ def equiv(files: Sequence[str], top: str, against_files: Sequence[str], against_
 
 def equiv_models(model_a: Model, model_b: Model, *, mapping: Mapping[str, str] | None = None,
                  engine: str = "auto", timeout: float | None = None, vectors: int = 1 << 13,
-                 seed: int = 1, query_seconds: float = 5.0,
+                 seed: int = 1, query_seconds: float = 5.0, latency: Optional[int] = None,
+                 clock: Optional[str] = None, reset: Optional[str] = None,
+                 reset_low: Optional[bool] = None, start: Optional[str] = None,
+                 done: Optional[str] = None, hold_input: bool = False,
                  started: float | None = None) -> EquivalenceResult:
     """Decide whether ``model_a`` and ``model_b`` compute the same outputs.
 
@@ -82,13 +86,33 @@ def equiv_models(model_a: Model, model_b: Model, *, mapping: Mapping[str, str] |
     ``timeout`` bounds the whole run from ``started`` (default now); past it: unknown with
     what was proved.  ``vectors``: random vectors of the hunt; ``query_seconds``: the limit of
     one solver query.
+
+    Clocked designs: pipelines only, ``latency`` cycles (with ``clock``/``reset``/``reset_low``
+    as for ``check``); see ``spec/clocked_equivalence.py`` for the reading.  Handshake options
+    (``start``, ``done``, ``hold_input``) raise BcdproveError (not supported yet), as do
+    protocol options for two combinational designs.
     """
     from .engines.sweeping import make_equivalence_engine
 
     started = time.monotonic() if started is None else started
     runner = make_equivalence_engine(engine, vectors=vectors, seed=seed,
                                      query_seconds=query_seconds)
-    problem = build_equivalence(model_a, model_b, mapping)
+    if model_a.is_clocked or model_b.is_clocked:
+        from .spec.clocked_equivalence import build_clocked_equivalence
+
+        problem = build_clocked_equivalence(model_a, model_b, latency=latency, mapping=mapping,
+                                            clock=clock, reset=reset, reset_low=reset_low,
+                                            start=start, done=done, hold_input=hold_input)
+    else:
+        given = [name for name, value in (("--latency", latency), ("--clock", clock),
+                                          ("--reset", reset), ("--start", start),
+                                          ("--done", done), ("--hold-input", hold_input or None),
+                                          ("--reset-low/--reset-high", reset_low))
+                 if value is not None]
+        if given:
+            raise BcdproveError(f"{', '.join(given)}: both designs are combinational; "
+                                f"protocol options apply to clocked designs")
+        problem = build_equivalence(model_a, model_b, mapping)
     verdict = run_engine(runner, problem, Budget(timeout, start=started))
     return EquivalenceResult(problem=problem, verdict=verdict, engine=engine,
                              seconds=time.monotonic() - started, timeout=timeout,

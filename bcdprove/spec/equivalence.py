@@ -183,14 +183,23 @@ def _where(port: Port) -> tuple:
     return (port.loc.file, port.loc.line) if port.loc else ()
 
 
-def _pair_ports(model_a: Model, model_b: Model,
-                mapping: Mapping[str, str]) -> tuple[list[tuple[Port, Port]], list[str]]:
-    """Pairs (port of A, port of B) in A's declaration order; BcdproveError on any mismatch."""
+def _pair_ports(model_a: Model, model_b: Model, mapping: Mapping[str, str],
+                compared: Sequence[str] | None = None) -> tuple[list[tuple[Port, Port]], list[str]]:
+    """Pairs (port of A, port of B) in A's declaration order; BcdproveError on any mismatch.
+
+    ``compared``: only these outputs of A (and their partners) are paired; other outputs of
+    either design are left out.
+    """
     a_name, b_name = f"`{model_a.top}`", f"`{model_b.top}`"
     if model_a.top == model_b.top:
         a_name, b_name = f"`{model_a.top}` (design)", f"`{model_b.top}` (--against)"
-    ports_a = {p.name: p for p in model_a.ports}
+    ports_a = {p.name: p for p in model_a.ports
+               if compared is None or p.direction != "output" or p.name in compared}
     ports_b = {p.name: p for p in model_b.ports}
+    if compared is not None:
+        mapping = {a: b for a, b in mapping.items() if a in ports_a}
+        partners = {mapping.get(name, name) for name in compared}
+        ports_b = {n: p for n, p in ports_b.items() if p.direction != "output" or n in partners}
     taken_b: dict[str, str] = {}
     for name_a, name_b in mapping.items():
         if name_a not in ports_a:
@@ -205,7 +214,7 @@ def _pair_ports(model_a: Model, model_b: Model,
         taken_b[name_b] = name_a
     pairs: list[tuple[Port, Port]] = []
     reasons: list[str] = []
-    for port in model_a.ports:
+    for port in ports_a.values():
         if port.name in mapping:
             other = ports_b[mapping[port.name]]
             how = "mapped"
@@ -233,7 +242,7 @@ def _pair_ports(model_a: Model, model_b: Model,
         pairs.append((port, other))
         label = port.name if how == "by name" else f"{port.name}={other.name}"
         reasons.append(f"{port.direction} {label} ({port.width} bits, {how})")
-    for port in model_b.ports:
+    for port in ports_b.values():
         if port.name not in taken_b:
             raise BcdproveError(
                 f"{port.direction} `{port.name}` of {b_name} has no counterpart in {a_name} "
@@ -252,16 +261,19 @@ def _refuse_clocked(model: Model, which: str) -> None:
 
 
 def build_equivalence(model_a: Model, model_b: Model,
-                      mapping: Mapping[str, str] | None = None) -> EquivalenceProblem:
+                      mapping: Mapping[str, str] | None = None,
+                      compared: Sequence[str] | None = None) -> EquivalenceProblem:
     """The check that ``model_a`` and ``model_b`` compute the same outputs.
 
     ``mapping`` pairs a port of A (key) with a port of B (value); other ports pair by name.
+    ``compared`` (default: every output) names the outputs of A to compare; the others, and
+    their partners, are left out (a clocked pair compares the outputs of one cycle).
     Raises BcdproveError for a clocked model, an unpaired port, or paired ports of different
     direction or width.  Neither model is changed: both cones are copied into a new graph.
     """
     _refuse_clocked(model_a, "design")
     _refuse_clocked(model_b, "--against design")
-    pairs, reasons = _pair_ports(model_a, model_b, dict(mapping or {}))
+    pairs, reasons = _pair_ports(model_a, model_b, dict(mapping or {}), compared)
     if not any(a.direction == "output" for a, _ in pairs):
         raise BcdproveError(f"`{model_a.top}` has no outputs to compare")
     graph = Graph()

@@ -134,3 +134,26 @@ def test_testbench_refused_when_both_designs_define_one_module_name(tmp_path):
     assert ran.returncode == 2
     assert "both designs define module(s) cell, top_plus" in ran.stderr
     assert not (tmp_path / "bench.v").exists()
+
+
+def test_pipelines_on_the_command_line():
+    pipe = str(DESIGNS / "clocked/scale_pipeline_bcd.v")
+    skew = str(DESIGNS / "clocked/scale_pipeline_skew_bug.v")
+    ran = bcdprove(pipe, "--top", "scale_pipeline_bcd", "--against", skew,
+                   "--against-top", "scale_pipeline_skew_bug", "--latency", "9", "--quiet")
+    assert ran.returncode == 1, ran.stderr       # designs/catalog.json: the skew bug, latency 9
+    assert "differing bcd@9" in ran.stdout
+    refused = bcdprove(pipe, "--top", "scale_pipeline_bcd", "--against", skew,
+                       "--against-top", "scale_pipeline_skew_bug", "--latency", "9",
+                       "--testbench", "unused.v")
+    assert refused.returncode == 2
+    assert "not written for clocked pairs yet" in refused.stderr
+
+
+def test_protocol_options_for_combinational_designs_are_an_error(tmp_path):
+    a = hd.write(tmp_path, "a.v", hd.SUM_AB)
+    b = hd.write(tmp_path, "b.v", hd.SUM_BA)
+    ran = bcdprove(a, "--top", "sum_ab", "--against", b, "--against-top", "sum_ba",
+                   "--latency", "2")
+    assert ran.returncode == 2
+    assert "--latency: both designs are combinational" in ran.stderr

@@ -90,7 +90,11 @@ def build_clocked_equivalence(model_a: Model, model_b: Model, *, latency: Option
     compared = [cycle_name(p.name, read) for p in model_a.outputs]
     problem = build_equivalence(unrolled_a.model, unrolled_b.model, unrolled_mapping,
                                 compared=compared)
-    problem.reasons[:0] = reasons + reasons_b + [
+    data = [p.name for p in model_a.inputs if p.name not in skip]
+    per_port = [r for r in problem.reasons if r.startswith(("input ", "output "))]
+    problem.reasons = reasons + reasons_b + [
         f"pipeline of latency {latency}: both designs unrolled over cycles 0 .. {read} with "
-        f"the same inputs, outputs compared in cycle {read}; power-up values free"]
+        f"the same inputs ({', '.join(data)} in every cycle), outputs "
+        f"{', '.join(p.name for p in model_a.outputs)} compared in cycle {read}; power-up "
+        f"values free"] + [r for r in problem.reasons if r not in per_port]
     return problem

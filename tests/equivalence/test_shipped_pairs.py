@@ -164,3 +164,27 @@ def test_a_clocked_design_against_a_combinational_one_is_refused():
     with pytest.raises(BcdproveError, match="is clocked but .* is combinational"):
         _run(*PIPELINE, "comb/scale_add3_triangle8.v", "scale_add3_triangle8", SIZES, {},
              latency=9)
+
+
+def test_a_64_bit_twin_wrong_in_one_corner_differs_and_icarus_agrees():
+    # meter_wide_stage_bug: one cell of stage 40 corrects from 6 (designs/catalog.json);
+    # the smallest failing input, from Icarus, is 838,860,800,000,000.
+    file_b, top_b = "wide/meter_wide_stage_bug.v", "meter_wide_stage_bug"
+    twin = _entry(file_b, W=64)
+    result = _run("wide/meter_wide_add3_full.v", "meter_wide_add3_full", file_b, top_b,
+                  {"W": 64}, {"W": 64})
+    assert result.verdict.status == DISPROVED
+    value = result.verdict.counterexample.inputs["count"]
+    assert value >= twin.first_failing_input
+    out_a, out_b = _icarus_outputs("wide/meter_wide_add3_full.v", "meter_wide_add3_full",
+                                   {"W": 64}, file_b, top_b, {"W": 64}, "count", 64, value)
+    assert out_a != out_b and int(out_a, 16) == reference_bcd(value)
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("other", ["meter_wide_digit_array", "meter_wide_add3_triangle"])
+def test_64_bit_double_dabble_variants_are_equivalent(other):
+    result = _run("wide/meter_wide_loop.v", "meter_wide_loop", f"wide/{other}.v", other,
+                  {"W": 64}, {"W": 64})
+    assert result.verdict.status == PROVED, result.verdict.reason
+    assert result.verdict.stats["sweep"]["proved"] > 0

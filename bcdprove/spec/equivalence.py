@@ -22,7 +22,7 @@ from typing import Mapping, Sequence
 from ..errors import BcdproveError
 from ..model.combine import transplant
 from ..model.design import Model, Port
-from ..model.node import Graph, Node, Op, evaluate, leaves, mask, topological
+from ..model.node import Graph, Node, Op, evaluate, mask, topological
 
 
 @dataclass
@@ -126,14 +126,6 @@ class EquivalenceProblem:
     def leaves(self) -> list[Node]:
         """Every leaf the outputs may depend on: the shared inputs, then the unknown values."""
         return self.input_leaves() + self.free_leaves()
-
-    def input_bits(self) -> int:
-        return sum(pair.width for pair in self.inputs)
-
-    def evaluate_combined(self, values: Mapping[int, int]) -> list[int]:
-        """The outputs (A's then B's) in the combined graph; missing leaves are 0."""
-        full = {leaf.id: values.get(leaf.id, 0) for leaf in leaves(self.roots)}
-        return evaluate(self.roots, full, self._order("combined", self.roots))
 
     def _order(self, key: str, roots: Sequence[Node]) -> list[Node]:
         if key not in self._orders:

@@ -43,6 +43,7 @@ class ProverStats:
     seconds: float = 0.0
     slowest: float = 0.0
     spurious: int = 0                             # satisfiable only thanks to a cut point
+    shape_hits: int = 0                           # proved by a query of the same shape
     timeouts: int = 0
     largest_cone: int = 0
     slowest_pair: str = ""
@@ -122,6 +123,7 @@ class PairProver:
         self.limits = limits
         self.full_cone_limit = full_cone_limit
         self.stats = ProverStats()
+        self._proved_shapes: set[tuple] = set()
 
     def prove_equal(self, a: Node, b: Node, budget: Budget, label: str = "",
                     limits=None) -> Outcome:
@@ -146,6 +148,10 @@ class PairProver:
             seconds = self.query_seconds if left is None else min(self.query_seconds, left)
             if seconds <= 0:
                 return Outcome(UNDECIDED, reason="the time limit was reached")
+            shape = cone_shape([a, b], expanded)
+            if shape in self._proved_shapes:
+                self.stats.shape_hits += 1
+                return Outcome(PROVED)
             encoder = Z3Encoder(self.ctx)
             for cut in cuts:
                 encoder.cut(cut)
@@ -158,6 +164,7 @@ class PairProver:
                                                 else str(limit))
             self.stats.limits[key] = self.stats.limits.get(key, 0) + 1
             if answer == z3.unsat:
+                self._proved_shapes.add(shape)
                 return Outcome(PROVED)
             if answer != z3.sat:
                 self.stats.timeouts += 1
@@ -168,6 +175,36 @@ class PairProver:
                 return Outcome(REFUTED, encoder.leaf_values(model, leaves))
             self.stats.spurious += 1
         return Outcome(UNDECIDED, reason="different only where the cone was cut")
+
+
+def cone_shape(roots: list[Node], expanded: list[Node]) -> tuple:
+    """The query's formula up to the names of its variables (cut points and leaves).
+
+    Two queries with one shape ask the same question of renamed variables, so they have the
+    same answer: the cells of a digit array, one per stage and digit, are proved once.
+    """
+    inside = {n.id for n in expanded}
+    index: dict[int, int] = {}
+    items: list[tuple] = []
+    for root in roots:
+        stack = [(root, False)]
+        while stack:
+            node, ready = stack.pop()
+            if node.id in index:
+                continue
+            if node.id in inside and not ready:
+                stack.append((node, True))
+                stack.extend((arg, False) for arg in reversed(node.args) if arg.id not in index)
+                continue
+            if node.id in inside:
+                items.append((node.op, node.width, node.params,
+                              tuple(index[arg.id] for arg in node.args)))
+            elif node.op == Op.CONST:
+                items.append((Op.CONST, node.width, node.params))
+            else:                                  # a cut point or a leaf: a variable
+                items.append(("variable", node.width))
+            index[node.id] = len(items) - 1
+    return tuple(items), tuple(index[r.id] for r in roots)
 
 
 def expanded_leaves(expanded: list[Node], roots: list[Node]) -> list[Node]:

@@ -83,3 +83,17 @@ def test_the_miter_alone_agrees():
     verdict = make_equivalence_engine("miter").run(build_equivalence(a, b), Budget(120))
     assert verdict.status == PROVED
     assert "sweep" not in verdict.stats
+
+
+def test_a_query_of_a_proved_shape_is_not_asked_again():
+    # 10*x == (x<<3)+(x<<1) for x and for y: one formula up to the name of its variable.
+    g = Graph()
+    x, y = g.input("x", 12), g.input("y", 12)
+    prover = PairProver()
+    assert prover.prove_equal(_times_ten(g, x), _shift_add_ten(g, x), Budget(60)).status == PAIR_PROVED
+    asked = prover.stats.queries
+    assert prover.prove_equal(_times_ten(g, y), _shift_add_ten(g, y), Budget(60)).status == PAIR_PROVED
+    assert prover.stats.queries == asked and prover.stats.shape_hits == 1
+    # A different constant is a different shape: asked, and refuted (9*y != 10*y).
+    outcome = prover.prove_equal(g.mul(y, g.const(9, 12)), _shift_add_ten(g, y), Budget(60))
+    assert outcome.status == REFUTED and prover.stats.queries == asked + 1

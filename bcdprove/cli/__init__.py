@@ -1,4 +1,4 @@
-"""The command line: ``bcdprove eval`` and ``bcdprove check`` (a thin layer over the public API)."""
+"""The command line: ``bcdprove eval``, ``check`` and ``equiv`` (a thin layer over the public API)."""
 from __future__ import annotations
 
 import sys
@@ -23,6 +23,8 @@ def _register_commands() -> None:
     except ImportError:  # pragma: no cover - only while the check command is being built
         return
     check_cmd.register(app)
+    from . import equiv_cmd
+    equiv_cmd.register(app)
 
 
 _register_commands()

@@ -59,6 +59,13 @@ class Z3Encoder:
             raise ValueError(f"{node!r} is not a leaf")
         return z3.BitVec(name, node.width, self.ctx)
 
+    def cut(self, node: Node) -> z3.BitVecRef:
+        """Translate ``node`` from now on as a free constant ``cut:ID`` (a cut point): its
+        arguments are not translated, so a query over it holds for every value it might take."""
+        term = z3.BitVec(f"cut:{node.id}", node.width, self.ctx)
+        self._terms[node.id] = term
+        return term
+
     def leaf_values(self, model: z3.ModelRef, leaves: Sequence[Node]) -> dict[int, int]:
         """Node id -> value of each leaf in ``model``; a leaf the model leaves open is 0."""
         out = {}

@@ -72,3 +72,45 @@ def check_record(result) -> dict:
 def check_json(result) -> str:
     """The report as one line of JSON text."""
     return json.dumps(check_record(result), sort_keys=False)
+
+
+def equiv_record(result) -> dict:
+    """The report of ``bcdprove equiv`` as a dict: verdict, engine, seconds, both designs, the
+    port pairs, the counterexample (inputs and both designs' outputs, decimal strings) and
+    the engine's stats (pairs proposed/proved/refuted, z3 queries, the slowest)."""
+    problem, verdict = result.problem, result.verdict
+    record = {"verdict": verdict.status, "engine": verdict.engine,
+              "seconds": round(verdict.seconds, 6), "covered": verdict.covered,
+              "reason": verdict.reason, "stats": _plain(verdict.stats)}
+    record["engine_requested"] = result.engine
+    record["seconds"] = round(result.seconds, 6)
+    record["designs"] = {
+        label: {"files": list(model.files), "top": model.top,
+                "parameters": {k: str(v) for k, v in model.parameters.items()}}
+        for label, model in (("design", result.model_a), ("against", result.model_b))}
+    record["ports"] = {
+        "inputs": [{"design": p.name_a, "against": p.name_b, "width": p.width}
+                   for p in problem.inputs],
+        "outputs": [{"design": o.name_a, "against": o.name_b, "width": o.width}
+                    for o in problem.outputs],
+        "reasons": list(problem.reasons)}
+    found = verdict.counterexample
+    if found is not None:
+        record["counterexample"] = {
+            "inputs": {name: str(value) for name, value in found.inputs.items()},
+            "outputs": [{"design": o.name_a, "against": o.name_b, "width": o.width,
+                         "design_value": str(o.value_a), "against_value": str(o.value_b),
+                         "differs": o.differs, "differing_bits": hex(o.value_a ^ o.value_b)}
+                        for o in found.outputs],
+            "differing": found.differing,
+            "unknown_values": {"design": {str(k): str(v) for k, v in found.free_values_a.items()},
+                               "against": {str(k): str(v) for k, v in found.free_values_b.items()}},
+            "replayed": found.replayed,
+        }
+    record["notes"] = list(result.notes)
+    return record
+
+
+def equiv_json(result) -> str:
+    """The report of ``bcdprove equiv`` as one line of JSON text."""
+    return json.dumps(equiv_record(result), sort_keys=False)

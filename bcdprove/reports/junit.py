@@ -64,3 +64,12 @@ def clocked_junit(result) -> str:
               for o in result.obligations]
     return _document(checks, f"bcdprove.{result.model.top}", result.seconds,
                      clocked_report(result))
+
+
+def equiv_junit(result) -> str:
+    """The XML document of ``bcdprove equiv``: one testcase, the equivalence of the two tops."""
+    from .equiv_text import equiv_report
+
+    name = f"{result.model_a.top} against {result.model_b.top}: equivalence"
+    return _document([(name, result.verdict)], f"bcdprove.{result.model_a.top}", result.seconds,
+                     equiv_report(result))

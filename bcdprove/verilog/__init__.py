@@ -9,7 +9,7 @@ from typing import Mapping, Optional, Sequence
 from ..model.design import Model
 from ..model.node import Graph
 
-__all__ = ["read_design"]
+__all__ = ["module_names", "read_design"]
 
 
 def read_design(files: Sequence[str], top: str, parameters: Optional[Mapping[str, int]] = None,
@@ -31,3 +31,14 @@ def read_design(files: Sequence[str], top: str, parameters: Optional[Mapping[str
     pre = preprocess(list(files), include_dirs=include_dirs, defines=defines)
     source = parse(pre)
     return elaborate(source, pre, top, parameters, graph, files)
+
+
+def module_names(files: Sequence[str], include_dirs: Sequence[str] = (),
+                 defines: Optional[Mapping[str, str]] = None) -> set[str]:
+    """The names of the modules ``files`` define (after preprocessing and parsing)."""
+    from .elaborate import module_definitions
+    from .parser import parse
+    from .preprocess import preprocess
+
+    pre = preprocess(list(files), include_dirs=include_dirs, defines=defines)
+    return set(module_definitions(parse(pre), pre))

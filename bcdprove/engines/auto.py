@@ -29,6 +29,13 @@ class AutoEngine:
             plan.append(exhaustive)
             return plan
         stages = stage_engine(self.options)
+        if problem.spec != "bin2bcd":
+            # The stage engines of the other specs cover the designs they can cut; for the
+            # rest a miter with the time that is left is the better bet than unknown.
+            if stages is not None:
+                plan.append(stages)
+            plan.append(SmtEngine(self.options.smt_form))
+            return plan
         # Past the exhaustive limit a monolithic miter rarely finishes (see ENGINE.md), so it
         # is only the fallback when the stage engine is not installed.
         plan.append(stages if stages is not None else SmtEngine(self.options.smt_form))

@@ -29,7 +29,8 @@ class EngineOptions:
 
 class StagesBySpec:
     """``--engine stages`` for every specification: the stage engine of the problem's spec
-    (bin2bcd: :mod:`.stages`; bcd2bin: :mod:`.prefix_stages`)."""
+    (bin2bcd: :mod:`.stages`; bcd2bin: :mod:`.prefix_stages`; signed: :mod:`.signed_stages`,
+    which reduces to the bin2bcd stages when the design takes the magnitude first)."""
 
     name = "stages"
 
@@ -43,9 +44,8 @@ class StagesBySpec:
         if problem.spec == "bcd2bin":
             from .prefix_stages import PrefixStageEngine
             return PrefixStageEngine(progress=self.progress).run(problem, budget)
-        from .base import UNKNOWN, Verdict
-        return Verdict(UNKNOWN, self.name, 0.0, covered="nothing proved",
-                       reason=f"no stage engine for --spec {problem.spec} yet; use --engine smt")
+        from .signed_stages import SignedStageEngine
+        return SignedStageEngine(self.bin2bcd).run(problem, budget)
 
 
 def stage_engine(options: EngineOptions):

@@ -36,6 +36,7 @@ class SignedProblem(CheckedOutputsProblem):
     digit_sources: list[str] = field(default_factory=list)
     sign_port: str = ""
     max_magnitude: Optional[int] = None
+    substitution: dict = field(default_factory=dict)   # tied port node id -> its constant
     _ok_node: Node | None = None
 
     spec = "signed"
@@ -300,12 +301,13 @@ def build_problem(model: Model, inputs: list[str] | None = None, outputs: list[s
     digits, sources = _split_digits(model, output_names, False)
     checked = [model.port(sign_name).node] + digits
     reasons = [input_reason + " (two's complement)", sign_reason, output_reason]
+    mapping = {model.port(n).node.id: model.graph.const(v, model.port(n).width)
+               for n, v in tie_values.items()}
     if tie_values:
-        mapping = {model.port(n).node.id: model.graph.const(v, model.port(n).width)
-                   for n, v in tie_values.items()}
         checked = substitute(model.graph, checked, mapping)
         reasons.append("tied: " + ", ".join(f"`{n}` = {v}" for n, v in tie_values.items()))
     return SignedProblem(model=model, input_ports=[input_name], output_ports=output_names,
                          reasons=reasons, x=in_port.node, width=width, checked=checked,
                          checked_names=[sign_name] + sources, ties=tie_values,
-                         digit_count=len(digits), digit_sources=sources, sign_port=sign_name)
+                         digit_count=len(digits), digit_sources=sources, sign_port=sign_name,
+                         substitution=mapping)

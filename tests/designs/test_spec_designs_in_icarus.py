@@ -22,6 +22,7 @@ from tests.support.icarus import run_icarus
 BCD2BIN = load_catalog(spec="bcd2bin")
 SIGNED = load_catalog(spec="signed")
 EXHAUSTIVE_DIGITS = 4
+EXHAUSTIVE_SIGNED_WIDTH = 14
 RANDOM_VECTORS = 64
 
 
@@ -129,9 +130,28 @@ def test_bcd2bin_design_behaves_as_catalogued(entry: Entry, tmp_path: Path):
     _judge(entry, bcd2bin_wrong(entry, vectors, rows))
 
 
+def signed_vectors(entry: Entry) -> list[int]:
+    """Every bit pattern up to EXHAUSTIVE_SIGNED_WIDTH bits; past it the extremes, +-1,
+    +-(10**k - 1, 10**k), +-2**k and seeded random values, as bit patterns."""
+    width = entry.width
+    if width <= EXHAUSTIVE_SIGNED_WIDTH:
+        return list(range(1 << width))
+    low, high = -(1 << (width - 1)), (1 << (width - 1)) - 1
+    chosen = {0, 1, -1, low, low + 1, high}
+    k = 1
+    while 10 ** k <= high:
+        chosen.update({10 ** k - 1, 10 ** k, -(10 ** k) + 1, -(10 ** k)})
+        k += 1
+    for k in range(width - 1):
+        chosen.update({1 << k, -(1 << k)})
+    generator = random.Random(f"{entry.name}-vectors")
+    chosen.update(generator.randint(low, high) for _ in range(RANDOM_VECTORS))
+    return sorted(v & ((1 << width) - 1) for v in chosen)
+
+
 @pytest.mark.parametrize("entry", _params(SIGNED))
 def test_signed_design_behaves_as_catalogued(entry: Entry, tmp_path: Path):
-    vectors = list(range(1 << entry.width))
+    vectors = signed_vectors(entry)
     widths, rows = _simulate(entry, vectors, tmp_path)
     _judge(entry, signed_wrong(entry, vectors, widths, rows))
 

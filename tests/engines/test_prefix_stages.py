@@ -1,0 +1,72 @@
+"""The prefix-stage engine (BCD to binary) on hand-built models: its steps, cuts and lifting.
+
+Expected values: Python int arithmetic (the prefix value of the top k digits is
+``value // 10**(D-k)``) and the catalogue's Icarus-checked designs.
+"""
+from __future__ import annotations
+
+from bcdprove.engines.base import Budget
+from bcdprove.engines.prefix_stages import PrefixStageEngine
+from bcdprove.model.design import Model, Port, Signal
+from bcdprove.model.node import Graph
+from bcdprove.spec.bcd2bin import bcd_value, build_problem
+
+
+def loop_model(digits: int, width: int, times_nine_at: int | None = None,
+               name_stages: bool = True) -> Model:
+    """``reading`` -> ``units`` by ``v = 10 v + d`` from the top digit down; the step at
+    ``times_nine_at`` multiplies by 9 instead (a deliberate bug)."""
+    graph = Graph()
+    reading = graph.input("reading", 4 * digits)
+    value = graph.zero(width)
+    signals = {}
+    for i in reversed(range(digits)):
+        digit = graph.zext(graph.extract(reading, 4 * i + 3, 4 * i), width)
+        factor = 9 if i == times_nine_at else 10
+        value = graph.add(graph.mul(value, graph.const(factor, width)), digit)
+        if name_stages:
+            signals[f"units@i={i}"] = Signal(f"units@i={i}", value, "probe")
+    ports = [Port("reading", "input", 4 * digits, False, reading),
+             Port("units", "output", width, False, value)]
+    return Model(graph=graph, top="loop", files=["hand"], ports=ports, signals=signals)
+
+
+def test_mining_finds_every_prefix_value():
+    problem = build_problem(loop_model(12, 40))
+    stages = PrefixStageEngine().mine(problem)
+    assert sorted(stages) == list(range(1, 12))          # P_1 .. P_11 (P_12 is the output)
+
+
+def test_proof_shares_one_shape_across_the_loop():
+    verdict = PrefixStageEngine().run(build_problem(loop_model(30, 100)), Budget(120))
+    assert verdict.status == "proved"
+    assert verdict.stats["obligations"] == 30
+    assert verdict.stats["shapes"] <= 3                    # base, loop step, loose vs exact
+
+
+def test_a_wrong_step_is_lifted_and_replayed():
+    problem = build_problem(loop_model(16, 54, times_nine_at=5))
+    verdict = PrefixStageEngine().run(problem, Budget(120))
+    assert verdict.status == "disproved"
+    found = verdict.counterexample
+    assert found.replayed
+    x = problem.input_value(found)
+    value = bcd_value(x, 16)
+    # Python int: times nine at position 5 drops P_10 * 10**5 from the result
+    assert found.actual == [value - (value // 10 ** 6) * 10 ** 5]
+    assert found.expected == [value]
+
+
+def test_without_named_stages_one_monolithic_step_still_proves_small_designs():
+    problem = build_problem(loop_model(4, 14, name_stages=False))
+    verdict = PrefixStageEngine().run(problem, Budget(60))
+    assert verdict.status == "proved" and verdict.stats["stages_mined"] == 0
+
+
+def test_too_narrow_output_checked_below_its_capacity():
+    """14 digits need 47 bits (Python int bit_length); at 45 bits the values below 2**45
+    are proved through the limit, which the steps carry as a cap on each prefix."""
+    problem = build_problem(loop_model(14, 45))
+    assert not problem.fits()
+    verdict = PrefixStageEngine().run(problem.below_capacity(), Budget(120))
+    assert verdict.status == "proved"

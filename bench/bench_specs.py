@@ -34,7 +34,7 @@ def _row(design: str, size: str, result, cpu: float, wall: float) -> str:
     inner = stats.get("magnitude_stages", {})
     obligations = stats.get("obligations", inner.get("obligations", "-"))
     shapes = stats.get("shapes", inner.get("shapes", inner.get("distinct_shapes", "-")))
-    return (f"{design:<26} {size:>10} {verdict.status:>10} {verdict.engine:>10} "
+    return (f"{design:<28} {size:>10} {verdict.status:>10} {verdict.engine:>10} "
             f"{cpu:>8.2f} {wall:>8.2f} {str(obligations):>11} {str(shapes):>7}")
 
 
@@ -46,12 +46,12 @@ def main() -> None:
     parser.add_argument("--miter", type=float, default=0.0,
                         help="also run the smt engine with this time limit")
     args = parser.parse_args()
-    print(f"{'design':<26} {'size':>10} {'verdict':>10} {'engine':>10} {'cpu s':>8} "
+    print(f"{"design":<28} {'size':>10} {'verdict':>10} {'engine':>10} {'cpu s':>8} "
           f"{'wall s':>8} {'obligations':>11} {'shapes':>7}")
     engines = ["stages"] + (["smt"] if args.miter else [])
     for digits in [int(d) for d in args.digits.split(",") if d]:
         bits = (10 ** digits - 1).bit_length()
-        for top in ("meter_wide_bcd2bin", "meter_wide_bcd2bin_bug"):
+        for top in ("meter_wide_bcd2bin", "meter_wide_bcd2bin_weights", "meter_wide_bcd2bin_bug"):
             for engine in engines:
                 timeout = args.timeout if engine == "stages" else args.miter
                 result, cpu, wall = _run(DESIGNS / "bcd2bin" / f"{top}.v", top,

@@ -23,6 +23,11 @@ to an input (the digits of ``p`` on top, the step's digits below, zeros after) a
 on the whole model: only a replay that shows a wrong output disproves.  A step that cannot be
 cut, a lifted input that replays right, or a limit reached is ``unknown``.  An invalid-digit
 flag is checked by one z3 query over its own (small) cone.
+
+Designs that accumulate from the ones digit up (``v += d_i * weight_i``) hold the other
+family of canonical values, the suffixes ``Q_k = (sum of the low k digits as a number)``,
+with steps ``Q_t = Q_s + sum(d_i * 10**i, s <= i < t)`` and ``Q_s <= 10**s - 1``; when the
+prefix chain does not decide, the same machinery runs over the suffixes.
 """
 from __future__ import annotations
 
@@ -35,6 +40,24 @@ from .base import DISPROVED, PROVED, UNKNOWN, Budget, Verdict
 
 MINING_LANES = 512
 _STEP_SECONDS = 30.0          # a z3 step past this is not a small obligation: give up on it
+
+
+FAMILIES = ("prefix", "suffix")
+
+
+def _family_value(family: str, value: int, k: int, digits: int) -> int:
+    """The canonical value after ``k`` steps: the top ``k`` digits (prefix) or the low ``k``
+    digits (suffix) of ``value``, read as a number (Python int)."""
+    if family == "prefix":
+        return value // 10 ** (digits - k)
+    return value % 10 ** k
+
+
+def _positions(family: str, s: int, t: int, digits: int) -> list[int]:
+    """Digit positions a step from ``s`` to ``t`` digits reads, lowest first."""
+    if family == "prefix":
+        return list(range(digits - t, digits - s))
+    return list(range(s, t))
 
 
 class NotACut(Exception):
@@ -53,8 +76,9 @@ class PrefixStageEngine:
         self.seed = seed
 
     # mining --------------------------------------------------------------------------
-    def mine(self, problem) -> dict[int, list[Node]]:
-        """Stage k -> design nodes equal to ``P_k`` on every simulated lane (newest first)."""
+    def mine(self, problem, family: str = "prefix") -> dict[int, list[Node]]:
+        """Stage k -> design nodes equal to the family's value on every simulated lane
+        (newest first): ``P_k`` (prefix) or ``Q_k`` (suffix)."""
         from ..model.simulate import Simulator, pack, unpack
         from ..spec.bcd2bin import bcd_value
 
@@ -92,7 +116,7 @@ class PrefixStageEngine:
         numbers = [bcd_value(x, digits) for x in stimuli]
         stages: dict[int, list[Node]] = {}
         for k in range(1, digits):
-            signature = tuple(v // 10 ** (digits - k) for v in numbers)
+            signature = tuple(_family_value(family, v, k, digits) for v in numbers)
             found = by_signature.get(signature)
             if found:
                 stages[k] = sorted(found, key=lambda n: -n.id)
@@ -104,11 +128,28 @@ class PrefixStageEngine:
         if problem.spec != "bcd2bin":
             return Verdict(UNKNOWN, self.name, 0.0, covered="nothing proved",
                            reason=f"prefix stages are for --spec bcd2bin, not {problem.spec}")
-        stats: dict = {"obligations": 0, "shapes": 0, "solver_calls": 0}
-        stages = self.mine(problem)
-        stats["stages_mined"] = len(stages)
+        reasons = []
+        verdict = None
+        mined = {family: self.mine(problem, family) for family in FAMILIES}
+        # The family the design holds more of first; a family without any stage is one
+        # monolithic step, tried once at most (as the last resort).
+        order = sorted(FAMILIES, key=lambda f: -len(mined[f]))
+        order = [f for f in order if mined[f]] or [FAMILIES[0]]
+        for family in order:
+            stages = mined[family]
+            verdict = self._chain(problem, budget, family, stages, started)
+            if verdict.status != UNKNOWN:
+                return verdict
+            reasons.append(f"{family} stages: {verdict.reason}")
+        verdict.reason = "; ".join(reasons)
+        return verdict
+
+    def _chain(self, problem, budget: Budget, family: str, stages: dict,
+               started: float) -> Verdict:
+        stats: dict = {"family": family, "obligations": 0, "shapes": 0, "solver_calls": 0,
+                       "stages_mined": len(stages)}
         digits = problem.digit_count
-        chain = Chain(problem, budget, stats)
+        chain = Chain(problem, budget, stats, family)
         position, current = 0, None
         steps_done = 0
         while position < digits:
@@ -127,13 +168,13 @@ class PrefixStageEngine:
                     break
             if outcome is None:
                 return self._unknown(started, stats, position,
-                                     f"no mined stage after digit {position} cuts the design "
-                                     f"(the next stages read digits above their step)")
+                                     f"no mined stage after {position} digits cuts the design "
+                                     f"(the next stages read digits outside their step)")
             status, target, node, found, why = outcome
             if status == DISPROVED:
                 return Verdict(DISPROVED, self.name, time.monotonic() - started,
                                counterexample=found, stats=stats,
-                               covered=f"prefix stages 0 .. {position} proved; the step to "
+                               covered=f"{family} stages 0 .. {position} proved; the step to "
                                        f"{target} fails")
             if status == UNKNOWN:
                 return self._unknown(started, stats, position, why)
@@ -147,30 +188,31 @@ class PrefixStageEngine:
             if status == DISPROVED:
                 return Verdict(DISPROVED, self.name, time.monotonic() - started,
                                counterexample=found, stats=stats,
-                               covered="binary output proved by prefix stages; the flag fails")
+                               covered=f"binary output proved by {family} stages; the flag fails")
             if status == UNKNOWN:
                 return Verdict(UNKNOWN, self.name, time.monotonic() - started, stats=stats,
-                               covered="binary output proved by prefix stages for every valid "
-                                       "input; the flag not decided", reason=why)
+                               covered=f"binary output proved by {family} stages for every "
+                                       f"valid input; the flag not decided", reason=why)
         return Verdict(PROVED, self.name, time.monotonic() - started, stats=stats,
-                       covered=f"{problem.contract_words()}, by {steps_done} prefix-stage "
+                       covered=f"{problem.contract_words()}, by {steps_done} {family}-stage "
                                f"steps ({stats['obligations']} obligations, "
                                f"{stats['shapes']} distinct shapes), all unsat")
 
     def _unknown(self, started: float, stats: dict, position: int, why: str) -> Verdict:
         return Verdict(UNKNOWN, self.name, time.monotonic() - started, stats=stats,
-                       covered=f"prefix stages 0 .. {position} of the top digits proved",
+                       covered=f"{stats['family']} stages 0 .. {position} digits proved",
                        reason=why)
 
 
 class Chain:
     """The obligations of one problem, with the shape cache shared by all its steps."""
 
-    def __init__(self, problem, budget: Budget, stats: dict) -> None:
+    def __init__(self, problem, budget: Budget, stats: dict, family: str = "prefix") -> None:
         import z3
 
         from ..model.smt import Z3Encoder
 
+        self.family = family
         self.problem = problem
         self.budget = budget
         self.stats = stats
@@ -183,10 +225,12 @@ class Chain:
 
     # one step ------------------------------------------------------------------------------
     def step(self, s: int, node_s: Node | None, t: int, node_t: Node):
-        """Prove ``S_t = 10**(t-s) * S_s + digits`` for the step; raises NotACut."""
+        """Prove the step (prefix: ``S_t = 10**(t-s) * S_s + digits``; suffix: ``S_t = S_s +
+        sum(d_i * 10**i)``); raises NotACut."""
         problem = self.problem
         digits = problem.digit_count
-        step_digits = [self.digit_leaves[i] for i in range(digits - t, digits - s)]
+        positions = _positions(self.family, s, t, digits)
+        step_digits = [self.digit_leaves[i] for i in positions]
         prefix = None
         mapping = {problem.x.id: self.x_fresh}
         if node_s is not None:
@@ -207,18 +251,18 @@ class Chain:
         self.stats["obligations"] += 1
         exact = 10 ** s - 1
         if problem.limit is not None:
-            exact = min(exact, problem.limit // 10 ** (digits - s))
+            exact = min(exact, self._cap(s))
         loose = exact
-        if prefix is not None:
+        if prefix is not None and self.family == "prefix":
             # The widest range in which the reference cannot overflow the stage node: shared
             # by every step of a loop, so one query serves them all.
             loose = max(exact, ((1 << node_t.width) - 1 - (10 ** (t - s) - 1)) // 10 ** (t - s))
             loose = min(loose, (1 << prefix.width) - 1)
         # Inputs beyond a --max-input style limit are outside the contract: so are states
         # whose prefix value at stage t exceeds what the limit allows there.
-        cap = None if problem.limit is None else problem.limit // 10 ** (digits - t)
+        cap = None if problem.limit is None else self._cap(t)
         for bound in ([loose, exact] if loose != exact else [exact]):
-            answer = self._ask(cone, prefix, step_digits, t - s, bound, cap)
+            answer = self._ask(cone, prefix, positions, step_digits, bound, cap)
             if answer is None:
                 return (PROVED, t, node_t, None, "")
             if answer == "unknown":
@@ -227,7 +271,7 @@ class Chain:
         # The exact range failed: lift the state to an input and replay.
         values = answer
         p = values.get(prefix.id, 0) if prefix is not None else 0
-        x = self._lift(s, p, [values.get(d.id, 0) for d in step_digits])
+        x = self._lift(s, p, positions, [values.get(d.id, 0) for d in step_digits])
         if x is None or not problem.in_domain(x):
             return (UNKNOWN, t, node_t, None,
                     f"the step from {s} to {t} digits fails at a state no input reaches")
@@ -239,19 +283,29 @@ class Chain:
                     f"later); a monolithic query (--engine smt) may settle it")
         return (DISPROVED, t, node_t, found, "")
 
-    def _lift(self, s: int, p: int, step_values: list[int]) -> int | None:
-        problem = self.problem
-        digits = problem.digit_count
+    def _cap(self, k: int) -> int:
+        """The largest canonical value after ``k`` steps of an input within the limit: the
+        prefix of the limit, or the limit itself (a suffix is at most the whole value)."""
+        limit = self.problem.limit
+        if self.family == "prefix":
+            return limit // 10 ** (self.problem.digit_count - k)
+        return limit
+
+    def _lift(self, s: int, p: int, positions: list[int], step_values: list[int]) -> int | None:
+        """The input whose state after ``s`` steps is ``p`` and whose step digits are
+        ``step_values`` (other digits 0); None when ``p`` has more than ``s`` digits."""
+        digits = self.problem.digit_count
         if p >= 10 ** s or any(v > 9 for v in step_values):
             return None
         x = 0
-        for i, v in enumerate(step_values):
-            x |= v << 4 * (digits - len(step_values) - s + i)
+        for position, v in zip(positions, step_values):
+            x |= v << 4 * position
+        low = digits - s if self.family == "prefix" else 0
         for i, ch in enumerate(reversed(str(p).zfill(s) if s else "")):
-            x |= int(ch) << 4 * (digits - s + i)
+            x |= int(ch) << 4 * (low + i)
         return x
 
-    def _shape(self, cone: Node, prefix: Node | None, step_digits: list[Node], n: int,
+    def _shape(self, cone: Node, prefix: Node | None, step_digits: list[Node], n: tuple,
                bound: int, cap: int | None) -> tuple:
         """The obligation up to the names of its fresh values (hash-consed nodes differ by
         id only; leaves are renamed by their role)."""
@@ -271,31 +325,41 @@ class Chain:
                              tuple(index[a.id] for a in node.args)))
         return (n, bound, cap, tuple(rows))
 
-    def _ask(self, cone: Node, prefix: Node | None, step_digits: list[Node], n: int, bound: int,
-             cap: int | None):
+    def _ask(self, cone: Node, prefix: Node | None, positions: list[int],
+             step_digits: list[Node], bound: int, cap: int | None):
         """None when the step holds for every ``p <= bound`` and digits <= 9; "unknown"; or
         the values (leaf id -> value) of a failing state."""
         import z3
 
         from ..model.smt import check_within
 
-        key = self._shape(cone, prefix, step_digits, n, bound, cap)
+        # The reference's weights: relative for a prefix step (the same for every step of a
+        # loop), absolute for a suffix step.
+        if self.family == "prefix":
+            weights = tuple(10 ** j for j in range(len(step_digits)))
+            scale = 10 ** len(step_digits)
+        else:
+            weights = tuple(10 ** i for i in positions)
+            scale = 1
+        key = self._shape(cone, prefix, step_digits, (self.family, weights, scale), bound, cap)
         if key in self.proved:
             return None
         self.stats["shapes"] += 1
         encoder = self.encoder
         ctx = encoder.ctx
-        wide = max(cone.width, (prefix.width if prefix is not None else 0) + 4 * n + 4) + 1
-        reference = z3.BitVecVal(0, wide, ctx)
+        # Wide enough that the reference never wraps: a bound on p * scale + every digit.
+        largest = 10 * max(weights) + ((1 << prefix.width) * scale if prefix is not None else 0)
+        wide = max(cone.width, largest.bit_length()) + 1
         constraints = []
+        reference = z3.BitVecVal(0, wide, ctx)
         if prefix is not None:
             p = encoder.term(prefix)
             constraints.append(z3.ULE(p, z3.BitVecVal(bound, prefix.width, ctx)))
-            reference = z3.ZeroExt(wide - prefix.width, p)
-        for d in reversed(step_digits):
+            reference = z3.ZeroExt(wide - prefix.width, p) * scale
+        for d, weight in zip(step_digits, weights):
             term = encoder.term(d)
             constraints.append(z3.ULE(term, z3.BitVecVal(9, 4, ctx)))
-            reference = reference * 10 + z3.ZeroExt(wide - 4, term)
+            reference = reference + z3.ZeroExt(wide - 4, term) * weight
         if cap is not None:
             wide_cap = max(wide, cap.bit_length() + 1)
             constraints.append(z3.ULE(z3.ZeroExt(wide_cap - wide, reference),

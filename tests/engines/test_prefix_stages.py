@@ -70,3 +70,38 @@ def test_too_narrow_output_checked_below_its_capacity():
     assert not problem.fits()
     verdict = PrefixStageEngine().run(problem.below_capacity(), Budget(120))
     assert verdict.status == "proved"
+
+
+def weights_model(digits: int, width: int, wrong_weight_at: int | None = None) -> Model:
+    """``units = sum(d_i * 10**i)`` accumulated from the ones digit up; the weight at
+    ``wrong_weight_at`` is 10**i + 1 (a deliberate bug)."""
+    graph = Graph()
+    reading = graph.input("reading", 4 * digits)
+    value = graph.zero(width)
+    signals = {}
+    for i in range(digits):
+        weight = 10 ** i + (1 if i == wrong_weight_at else 0)
+        digit = graph.zext(graph.extract(reading, 4 * i + 3, 4 * i), width)
+        value = graph.add(value, graph.mul(digit, graph.const(weight, width)))
+        signals[f"units@i={i}"] = Signal(f"units@i={i}", value, "probe")
+    ports = [Port("reading", "input", 4 * digits, False, reading),
+             Port("units", "output", width, False, value)]
+    return Model(graph=graph, top="weights", files=["hand"], ports=ports, signals=signals)
+
+
+def test_suffix_family_proves_designs_that_accumulate_from_the_ones_digit():
+    problem = build_problem(weights_model(24, 80))
+    assert sorted(PrefixStageEngine().mine(problem, "suffix")) == list(range(1, 24))
+    verdict = PrefixStageEngine().run(problem, Budget(120))
+    assert verdict.status == "proved" and verdict.stats["family"] == "suffix"
+    assert verdict.stats["obligations"] == 24
+
+
+def test_suffix_family_lifts_a_wrong_weight():
+    problem = build_problem(weights_model(24, 80, wrong_weight_at=9))
+    verdict = PrefixStageEngine().run(problem, Budget(120))
+    assert verdict.status == "disproved"
+    found = verdict.counterexample
+    value = bcd_value(problem.input_value(found), 24)
+    digit9 = value // 10 ** 9 % 10
+    assert digit9 != 0 and found.actual == [value + digit9]      # Python int: one extra d_9

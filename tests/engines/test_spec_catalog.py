@@ -79,9 +79,10 @@ def test_stages_decide_the_wide_designs(entry):
     assert result.verdict.status == entry.expected        # catalogue, from Icarus
     if entry.expected == "proved" and entry.spec == "bcd2bin":
         stats = result.verdict.stats
-        # one obligation per digit; the loop's steps share their shape
+        # one obligation per digit; the steps of a prefix loop share their shape
         assert stats["obligations"] == entry.raw["digits"]
-        assert stats["shapes"] <= 3
+        if stats["family"] == "prefix":
+            assert stats["shapes"] <= 3
 
 
 @pytest.mark.parametrize("entry", _slow_marked([e for e in ENTRIES if e.expected == "disproved"]))

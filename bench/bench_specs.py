@@ -46,7 +46,7 @@ def main() -> None:
     parser.add_argument("--miter", type=float, default=0.0,
                         help="also run the smt engine with this time limit")
     args = parser.parse_args()
-    print(f"{"design":<28} {'size':>10} {'verdict':>10} {'engine':>10} {'cpu s':>8} "
+    print(f"{'design':<28} {'size':>10} {'verdict':>10} {'engine':>10} {'cpu s':>8} "
           f"{'wall s':>8} {'obligations':>11} {'shapes':>7}")
     engines = ["stages"] + (["smt"] if args.miter else [])
     for digits in [int(d) for d in args.digits.split(",") if d]:

@@ -23,7 +23,7 @@ import random
 import time
 
 from ..model.design import Model, Port, Signal
-from ..model.node import Node, Op, leaves, mask, substitute
+from ..model.node import Node, Op, leaves, mask, substitute, topological
 from .base import DISPROVED, PROVED, UNKNOWN, Budget, Verdict
 
 MINING_LANES = 256
@@ -189,9 +189,15 @@ class SignedStageEngine:
         nodes = [problem.model.signals[n].node for n in names]
         rebuilt = substitute(graph, nodes, mapping) if mapping else nodes
         rebuilt = substitute(graph, rebuilt, {magnitude_node.id: leaf})
+        # Which rebuilt nodes still read x: one pass over them all (a cone walk per signal
+        # was quadratic, minutes at 96 bits).
+        reads_x: set[int] = set()
+        for node in topological(rebuilt):
+            if node is problem.x or any(a.id in reads_x for a in node.args):
+                reads_x.add(node.id)
         signals = {}
         for name, node in zip(names, rebuilt):
-            if all(l is not problem.x for l in leaves([node])):
+            if node.id not in reads_x:
                 old = problem.model.signals[name]
                 signals[name] = Signal(name, node, old.kind, old.signed, old.loc)
         model = Model(graph=graph, top=problem.model.top, files=list(problem.model.files),

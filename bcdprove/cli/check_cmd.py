@@ -145,9 +145,7 @@ def check_command(
         write_text_file(junit, check_junit(result), "JUnit report")
     if testbench_path:
         from ..reports.testbench import write_testbench
-        from ..reports.spec_testbench import write_spec_testbench
-        writer = write_testbench if result.problem.spec == "bin2bcd" else write_spec_testbench
-        write_text_file(testbench_path, writer(result), "test bench")
+        write_text_file(testbench_path, write_testbench(result), "test bench")
     if as_json:
         from ..reports.json_report import check_json
         typer.echo(check_json(result))

@@ -60,6 +60,13 @@ def _positions(family: str, s: int, t: int, digits: int) -> list[int]:
     return list(range(s, t))
 
 
+def _smaller(problem, found, budget):
+    """A lifted input is any state the solver picked; a nearby smaller one reads better."""
+    from .replay import LaneChecker, shrink
+
+    return shrink(LaneChecker(problem), found, budget)
+
+
 class NotACut(Exception):
     """The stage-``t`` node reads digits above the step, so the stage-``s`` node does not cut it."""
 
@@ -172,6 +179,7 @@ class PrefixStageEngine:
                                      f"(the next stages read digits outside their step)")
             status, target, node, found, why = outcome
             if status == DISPROVED:
+                found = _smaller(problem, found, budget)
                 return Verdict(DISPROVED, self.name, time.monotonic() - started,
                                counterexample=found, stats=stats,
                                covered=f"{family} stages 0 .. {position} proved; the step to "
@@ -186,6 +194,7 @@ class PrefixStageEngine:
         if problem.flag_port is not None:
             status, found, why = chain.flag()
             if status == DISPROVED:
+                found = _smaller(problem, found, budget)
                 return Verdict(DISPROVED, self.name, time.monotonic() - started,
                                counterexample=found, stats=stats,
                                covered=f"binary output proved by {family} stages; the flag fails")

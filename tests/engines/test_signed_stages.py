@@ -56,3 +56,11 @@ def test_design_without_a_magnitude_node_is_unknown_with_the_reason():
     verdict = _stages().run(build_problem(signed_model(12, magnitude_first=False)), Budget(60))
     assert verdict.status == "unknown"
     assert "does not take the magnitude first" in verdict.reason
+
+
+def test_auto_falls_back_to_the_miter_when_there_is_no_cut():
+    from bcdprove.checking import check_model
+    result = check_model(signed_model(12, magnitude_first=False), spec="signed",
+                         engine="auto", exhaustive_limit=4)
+    assert result.verdict.status == "proved" and result.verdict.engine == "auto (smt)"
+    assert [e["engine"] for e in result.verdict.stats["engines"]] == ["random", "stages", "smt"]

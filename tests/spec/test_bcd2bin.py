@@ -147,3 +147,21 @@ def test_clocked_design_is_refused():
     path = str(DESIGNS / "clocked" / "meter_serial_bcd.v")
     with pytest.raises(BcdproveError, match="clocked ones are not supported yet"):
         check([path], "meter_serial_bcd", spec="bcd2bin")
+
+
+def test_numbered_digit_inputs_are_read_index_0_least_significant():
+    """bcd0 .. bcd3 (common practice: index 0 the ones digit) join into one input."""
+    graph = Graph()
+    ports = [graph.input(f"bcd{i}", 4) for i in (3, 1, 0, 2)]      # declared out of order
+    by_name = {p.params[0]: p for p in ports}
+    value = graph.zero(14)
+    for i in (3, 2, 1, 0):
+        value = graph.add(graph.mul(value, graph.const(10, 14)), graph.zext(by_name[f"bcd{i}"], 14))
+    model = Model(graph=graph, top="four", files=["hand"],
+                  ports=[Port(p.params[0], "input", 4, False, p) for p in ports]
+                  + [Port("total", "output", 14, False, value)])
+    problem = build_problem(model)
+    assert problem.input_ports == ["bcd0", "bcd1", "bcd2", "bcd3"]
+    assert problem.evaluate(0x4321) == [4321]                         # Python int("4321")
+    assert problem.input_fields(0x4321) == {"bcd0": 1, "bcd1": 2, "bcd2": 3, "bcd3": 4}
+    assert check_model(model, spec="bcd2bin", engine="exhaustive").verdict.status == "proved"

@@ -1,10 +1,10 @@
 """The exhaustive engine: every input in the contract, bit-parallel, in chunks of 2**20 lanes.
 
 It proves when every input of the contract (``problem.domain_size()`` of them, visited in
-the order of ``problem.domain_value``; for bin2bcd ``0 .. top``) was simulated and every lane came out right (lanes
-that depend on unknown values are settled by z3 with the input fixed).  Inputs wider than
-the limit are refused as ``unknown`` before any work, so a user is never left waiting on
-2**40 vectors.
+the order of ``problem.domain_value``; for bin2bcd ``0 .. top``) was simulated and every
+lane came out right (lanes that depend on unknown values are settled by z3 with the input
+fixed).  Contracts larger than the limit are refused as ``unknown`` before any work, so a
+user is never left waiting on 2**40 vectors.
 """
 from __future__ import annotations
 

@@ -1,9 +1,9 @@
 """Stage induction for BCD-to-binary converters: prove the value of the top digits, step by step.
 
 The canonical intermediates of a BCD-to-binary converter are the prefix values
-``P_k = sum of the top k digits read as a number`` (``P_0 = 0``, ``P_D`` the output): a
-multiply-by-ten loop, a chain of ``10*v + d`` cells or a row of constant multipliers all hold
-them, whatever their cells look like.  The engine
+``P_k = the top k digits read as a number`` (``P_0 = 0``, ``P_D`` the output): a
+multiply-by-ten loop or a chain of ``10*v + d`` cells holds them, however its multiply is
+built (a constant multiply, shifts and adds, a table).  The engine
 
 1. mines design signals equal to ``P_k`` on every lane of a bit-parallel simulation (valid
    digit vectors, many with their top digits all 9 so each prefix reaches its largest value);
@@ -26,8 +26,9 @@ flag is checked by one z3 query over its own (small) cone.
 
 Designs that accumulate from the ones digit up (``v += d_i * weight_i``) hold the other
 family of canonical values, the suffixes ``Q_k = (sum of the low k digits as a number)``,
-with steps ``Q_t = Q_s + sum(d_i * 10**i, s <= i < t)`` and ``Q_s <= 10**s - 1``; when the
-prefix chain does not decide, the same machinery runs over the suffixes.
+with steps ``Q_t = Q_s + sum(d_i * 10**i, s <= i < t)`` and ``Q_s <= 10**s - 1``.  Both
+families are mined; the one the design holds more of runs first, the other when the first
+does not decide.
 """
 from __future__ import annotations
 

@@ -62,7 +62,7 @@ class Bcd2BinProblem(CheckedOutputsProblem):
     flag_port: Optional[str] = None
     limit: Optional[int] = None
     substitution: dict = field(default_factory=dict)   # port node id -> its node in terms of x
-    _ok_node: Node | None = None
+    _ok_node: Node | None = field(default=None, repr=False, compare=False)
 
     spec = "bcd2bin"
 

@@ -37,7 +37,7 @@ class SignedProblem(CheckedOutputsProblem):
     sign_port: str = ""
     max_magnitude: Optional[int] = None
     substitution: dict = field(default_factory=dict)   # tied port node id -> its constant
-    _ok_node: Node | None = None
+    _ok_node: Node | None = field(default=None, repr=False, compare=False)
 
     spec = "signed"
 

@@ -105,3 +105,24 @@ def test_suffix_family_lifts_a_wrong_weight():
     value = bcd_value(problem.input_value(found), 24)
     digit9 = value // 10 ** 9 % 10
     assert digit9 != 0 and found.actual == [value + digit9]      # Python int: one extra d_9
+
+
+def test_stages_are_mined_through_split_digit_ports():
+    """Digit ports d0 .. d9 are joined into one input; the design's signals, written over
+    the ports, are rebuilt over it before mining."""
+    graph = Graph()
+    ports = [graph.input(f"d{i}", 4) for i in range(10)]
+    value = graph.zero(34)
+    signals = {}
+    for i in reversed(range(10)):
+        value = graph.add(graph.mul(value, graph.const(10, 34)), graph.zext(ports[i], 34))
+        signals[f"acc@{i}"] = Signal(f"acc@{i}", value, "probe")
+    model = Model(graph=graph, top="split", files=["hand"], signals=signals,
+                  ports=[Port(f"d{i}", "input", 4, False, p) for i, p in enumerate(ports)]
+                  + [Port("total", "output", 34, False, value)])
+    problem = build_problem(model)
+    assert problem.input_ports == [f"d{i}" for i in range(10)]
+    engine = PrefixStageEngine()
+    assert sorted(engine.mine(problem)) == list(range(1, 10))
+    verdict = engine.run(problem, Budget(60))
+    assert verdict.status == "proved" and verdict.stats["steps"] == 10

@@ -33,7 +33,7 @@ def _row(design: str, size: str, result, cpu: float, wall: float) -> str:
     stats = verdict.stats
     inner = stats.get("magnitude_stages", {})
     obligations = stats.get("obligations", inner.get("obligations", "-"))
-    shapes = stats.get("shapes", inner.get("shapes", inner.get("distinct_shapes", "-")))
+    shapes = stats.get("shapes", inner.get("distinct_obligations", "-"))
     return (f"{design:<28} {size:>10} {verdict.status:>10} {verdict.engine:>10} "
             f"{cpu:>8.2f} {wall:>8.2f} {str(obligations):>11} {str(shapes):>7}")
 

@@ -74,7 +74,7 @@ def check_record(result) -> dict:
 def _spec_record(result, record: dict) -> dict:
     """The bcd2bin and signed reports: ``spec``, the ports by role, the widths, and with a
     counterexample ``input_value`` (the digits' number, or the signed input) beside the
-    port values."""
+    port values, and ``not_checked`` (outputs that do not matter at that input)."""
     model, problem = result.model, result.problem
     record["spec"] = problem.spec
     ports = {"inputs": list(problem.input_ports), "outputs": list(problem.output_ports),
@@ -103,6 +103,10 @@ def _spec_record(result, record: dict) -> dict:
             value = (problem.signed_value(x) if problem.spec == "signed"
                      else _digits_number(problem, x))
             target["counterexample"]["input_value"] = None if value is None else str(value)
+            # Positions of checked outputs that do not matter at this input (the binary value
+            # next to a raised invalid-digit flag): their "expected" is the actual value.
+            target["counterexample"]["not_checked"] = [
+                i for i, want in enumerate(problem.expectation(x).values) if want is None]
     record["notes"] = list(result.notes)
     return record
 

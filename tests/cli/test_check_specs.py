@@ -100,3 +100,14 @@ def test_clocked_designs_are_refused_for_the_new_specs(monkeypatch, capsys, spec
     code, _, err = _run(monkeypatch, capsys, _design("clocked/meter_serial_bcd.v"), "--top",
                         "meter_serial_bcd", "--spec", spec)
     assert code == 2 and f"--spec {spec}: clocked designs" in err and "not supported yet" in err
+
+
+def test_json_marks_the_binary_output_unchecked_next_to_a_raised_flag(monkeypatch, capsys):
+    code, out, _ = _run(monkeypatch, capsys, _design("bcd2bin/pump_keypad_checked_bug.v"),
+                        "--top", "pump_keypad_checked_bug", "--spec", "bcd2bin",
+                        "--invalid-flag", "bad_key", "--engine", "exhaustive", "--json")
+    assert code == 1
+    found = json.loads(out)["counterexample"]
+    # nibble A (1010) is not a decimal digit (common practice): the flag must be 1
+    assert found["inputs"] == {"keys": "10"} and found["input_value"] is None
+    assert found["not_checked"] == [0] and found["wrong_digits"] == [1]

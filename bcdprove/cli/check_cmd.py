@@ -18,8 +18,10 @@ from ._options import parse_assignments, parse_number, write_text_file
 
 
 def register(app: typer.Typer) -> None:
-    app.command("check", help="Check that every output nibble is the matching decimal digit of "
-                              "the input.")(check_command)
+    app.command("check", help="Check a converter against its specification: by default that "
+                              "every output nibble is the matching decimal digit of the input "
+                              "(--spec bin2bcd); also BCD to binary (--spec bcd2bin) and signed "
+                              "input to sign and magnitude digits (--spec signed).")(check_command)
 
 
 def _names(items: Optional[List[str]]) -> Optional[List[str]]:
@@ -46,11 +48,23 @@ def check_command(
     param: Optional[List[str]] = opt.PARAM,
     include_dir: Optional[List[str]] = opt.INCLUDE,
     define: Optional[List[str]] = opt.DEFINE,
-    in_port: Optional[List[str]] = typer.Option(None, "--in", metavar="PORT",
-                                                help="The binary input port."),
+    spec: str = typer.Option("bin2bcd", "--spec",
+                             help="bin2bcd (binary in, BCD digits out), bcd2bin (BCD digits in, "
+                                  "binary out) or signed (two's complement in, sign and "
+                                  "magnitude digits out)."),
+    in_port: Optional[List[str]] = typer.Option(
+        None, "--in", metavar="PORT[,PORT...]",
+        help="The data input port; for --spec bcd2bin the digit input port(s), least "
+             "significant digit first."),
+    invalid_flag: Optional[str] = typer.Option(
+        None, "--invalid-flag", metavar="PORT",
+        help="--spec bcd2bin: an output that must be 1 exactly when a digit is above 9."),
+    sign: Optional[str] = typer.Option(None, "--sign", metavar="PORT",
+                                       help="--spec signed: the sign output (1 for negative)."),
     out_ports: Optional[List[str]] = typer.Option(
         None, "--out", metavar="PORT[,PORT...]",
-        help="The digit output port(s), least significant digit first."),
+        help="The digit output port(s), least significant digit first; for --spec bcd2bin "
+             "the binary output."),
     msd_first: bool = typer.Option(False, "--msd-first",
                                    help="The low nibble holds the most significant digit."),
     max_input: Optional[str] = typer.Option(None, "--max-input", metavar="N",
@@ -91,6 +105,9 @@ def check_command(
         raise BcdproveError(f"--timeout {timeout:g}: give a positive number of seconds")
     if exhaustive_limit < 0 or exhaustive_limit > 40:
         raise BcdproveError(f"--exhaustive-limit {exhaustive_limit}: choose 0 .. 40 bits")
+    from ..checking import SPECS
+    if spec not in SPECS:
+        raise BcdproveError(f"--spec {spec}: choose one of {', '.join(SPECS)}")
     limit = parse_number(max_input, "--max-input") if max_input is not None else None
     started = time.monotonic()          # --timeout counts reading the design too
     model = opt.read(files, top, param, include_dir, define)
@@ -98,6 +115,10 @@ def check_command(
                                    done=done, latency=latency, hold_input=hold_input,
                                    max_cycles=max_cycles, vcd=vcd)
     if clocked.wants_clocked(model, protocol):
+        if spec != "bin2bcd":
+            raise BcdproveError(f"--spec {spec}: clocked designs (registers or clocking "
+                                f"options) are checked against --spec bin2bcd only; "
+                                f"{spec} for clocked designs is not supported yet")
         code = clocked.run_clocked_check(
             model, protocol, inputs=_names(in_port), outputs=_names(out_ports),
             msd_first=msd_first, max_input=limit, ties=parse_assignments(tie or [], "--tie"),
@@ -116,7 +137,8 @@ def check_command(
                              ties=parse_assignments(tie or [], "--tie"), engine=engine,
                              timeout=timeout, exhaustive_limit=exhaustive_limit,
                              random_vectors=vectors, seed=seed, smt_form=smt_form,
-                             started=started, progress=progress)
+                             started=started, progress=progress, spec=spec,
+                             invalid_flag=invalid_flag, sign=sign)
     result.overrides = parse_assignments(param or [], "--param")
     if junit:
         from ..reports.junit import check_junit

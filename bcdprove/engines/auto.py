@@ -1,7 +1,9 @@
 """The auto engine: a quick random bug hunt, then the strongest engine that fits the width.
 
 Order: random (``hunt_vectors``), then exhaustive when the contract has at most
-``2**exhaustive_limit`` inputs, else stages (when installed), else the smt miter.  The
+``2**exhaustive_limit`` inputs, else stages (when installed), else the smt miter.  For the
+bcd2bin and signed specs the stage engine may leave designs it cannot cut undecided, so the
+smt miter follows it there, for at most :data:`FALLBACK_SMT_SECONDS`.  The
 verdict is the first decisive one; otherwise unknown, with what every engine covered.
 """
 from __future__ import annotations
@@ -10,6 +12,25 @@ import time
 
 from .base import DISPROVED, PROVED, UNKNOWN, Budget, Verdict
 from .registry import EngineOptions, stage_engine
+
+
+# The miter after the bcd2bin/signed stage engines is a last try, not a wait without end
+# when no --timeout was given.
+FALLBACK_SMT_SECONDS = 120.0
+
+
+class _Bounded:
+    """An engine run with at most ``seconds`` of the shared budget."""
+
+    def __init__(self, engine, seconds: float) -> None:
+        self.engine = engine
+        self.seconds = seconds
+        self.name = engine.name
+
+    def run(self, problem, budget: Budget) -> Verdict:
+        left = budget.remaining()
+        limit = self.seconds if left is None else min(left, self.seconds)
+        return self.engine.run(problem, Budget(limit))
 
 
 class AutoEngine:
@@ -29,6 +50,13 @@ class AutoEngine:
             plan.append(exhaustive)
             return plan
         stages = stage_engine(self.options)
+        if problem.spec != "bin2bcd":
+            # The stage engines of the other specs cover the designs they can cut; for the
+            # rest a miter with the time that is left is the better bet than unknown.
+            if stages is not None:
+                plan.append(stages)
+            plan.append(_Bounded(SmtEngine(self.options.smt_form), FALLBACK_SMT_SECONDS))
+            return plan
         # Past the exhaustive limit a monolithic miter rarely finishes (see ENGINE.md), so it
         # is only the fallback when the stage engine is not installed.
         plan.append(stages if stages is not None else SmtEngine(self.options.smt_form))

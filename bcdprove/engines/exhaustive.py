@@ -1,9 +1,10 @@
 """The exhaustive engine: every input in the contract, bit-parallel, in chunks of 2**20 lanes.
 
-It proves when every input ``0 .. top`` was simulated and every lane came out right (lanes
-that depend on unknown values are settled by z3 with the input fixed).  Inputs wider than
-the limit are refused as ``unknown`` before any work, so a user is never left waiting on
-2**40 vectors.
+It proves when every input of the contract (``problem.domain_size()`` of them, visited in
+the order of ``problem.domain_value``; for bin2bcd ``0 .. top``) was simulated and every
+lane came out right (lanes that depend on unknown values are settled by z3 with the input
+fixed).  Contracts larger than the limit are refused as ``unknown`` before any work, so a
+user is never left waiting on 2**40 vectors.
 """
 from __future__ import annotations
 
@@ -27,11 +28,11 @@ class ExhaustiveEngine:
 
     def applies(self, problem) -> bool:
         """Whether the contract is small enough for this engine."""
-        return problem.top_value < (1 << self.limit)
+        return problem.domain_size() <= (1 << self.limit)
 
     def run(self, problem, budget: Budget) -> Verdict:
         started = time.monotonic()
-        total = problem.top_value + 1
+        total = problem.domain_size()
         if not self.applies(problem):
             return Verdict(UNKNOWN, self.name, 0.0, covered="nothing simulated",
                            reason=f"{total:,} inputs exceed the exhaustive limit of 2**{self.limit} "
@@ -50,7 +51,7 @@ class ExhaustiveEngine:
             if result.counterexample is not None:
                 return Verdict(DISPROVED, self.name, time.monotonic() - started,
                                counterexample=result.counterexample,
-                               covered=f"inputs 0 .. {done + result.passed - 1:,} right; "
+                               covered=f"inputs {problem.span_words(0, done + result.passed - 1)} right; "
                                        f"the next one fails" if done + result.passed else
                                        "the first input fails",
                                stats={"inputs": done + result.passed + 1})
@@ -61,6 +62,6 @@ class ExhaustiveEngine:
                                stats={"inputs": done + result.passed})
             done += count
         return Verdict(PROVED, self.name, time.monotonic() - started,
-                       covered=f"all {total:,} inputs simulated (0 .. {total - 1:,})",
+                       covered=f"all {total:,} inputs simulated ({problem.span_words(0, total - 1)})",
                        stats={"inputs": total, "chunks": -(-total // chunk),
                               "settled_unknown_lanes": checker.settled_total})

@@ -27,6 +27,27 @@ class EngineOptions:
     progress: Optional[Callable[[int, int], None]] = None   # stages done of total, for a bar
 
 
+class StagesBySpec:
+    """``--engine stages`` for every specification: the stage engine of the problem's spec
+    (bin2bcd: :mod:`.stages`; bcd2bin: :mod:`.prefix_stages`; signed: :mod:`.signed_stages`,
+    which reduces to the bin2bcd stages when the design takes the magnitude first)."""
+
+    name = "stages"
+
+    def __init__(self, bin2bcd, progress=None) -> None:
+        self.bin2bcd = bin2bcd
+        self.progress = progress
+
+    def run(self, problem, budget):
+        if problem.spec == "bin2bcd":
+            return self.bin2bcd.run(problem, budget)
+        if problem.spec == "bcd2bin":
+            from .prefix_stages import PrefixStageEngine
+            return PrefixStageEngine(progress=self.progress).run(problem, budget)
+        from .signed_stages import SignedStageEngine
+        return SignedStageEngine(self.bin2bcd).run(problem, budget)
+
+
 def stage_engine(options: EngineOptions):
     """The wide-converter engine, or None when it is not installed."""
     try:
@@ -34,7 +55,7 @@ def stage_engine(options: EngineOptions):
     except ImportError:
         return None
     # Its own defaults otherwise: none of the other options are about stage induction.
-    return StageEngine(progress=options.progress)
+    return StagesBySpec(StageEngine(progress=options.progress), progress=options.progress)
 
 
 def make_engine(name: str, options: EngineOptions | None = None):

@@ -57,11 +57,11 @@ class LaneChecker:
         return self._check(len(values), planes, lambda lane: values[lane])
 
     def check_range(self, low: int, count: int) -> BatchResult:
-        """Check the inputs ``low .. low + count - 1`` (lane j holds ``low + j``)."""
-        from ..model.simulate import counting_planes
-
-        return self._check(count, counting_planes(low, count, self.problem.width),
-                           lambda lane: low + lane)
+        """Check the contract's inputs number ``low .. low + count - 1`` (lane j holds
+        ``problem.domain_value(low + j)``; for bin2bcd that is ``low + j``)."""
+        problem = self.problem
+        return self._check(count, problem.domain_planes(low, count),
+                           lambda lane: problem.domain_value(low + lane))
 
     def _check(self, lanes: int, x_planes: list[int], value_of) -> BatchResult:
         all_lanes = mask(lanes)
@@ -119,15 +119,14 @@ def shrink(checker: LaneChecker, found: Counterexample, budget=None,
     Stops when no candidate fails, after ``rounds`` rounds, or when ``budget`` runs out.
     """
     problem = checker.problem
-    port = problem.input_ports[0]
     best = found
     for _ in range(rounds):
         if budget is not None and budget.expired():
             break
-        x = best.inputs[port]
+        x = problem.input_value(best)
         candidates = {x & ~(1 << bit) for bit in range(problem.width) if x >> bit & 1}
         candidates |= {x & ~mask(bit) for bit in range(1, problem.width + 1)}
-        smaller = sorted(c for c in candidates if c < x)
+        smaller = sorted(c for c in candidates if c < x and problem.in_domain(c))
         if not smaller:
             break
         result = checker.check_values(smaller)

@@ -57,7 +57,7 @@ def _shrunk(problem, found, budget: Budget, stats: dict):
 
     smaller = shrink(LaneChecker(problem), found, budget)
     if smaller is not found:
-        stats["shrunk_from"] = str(found.inputs[problem.input_ports[0]])
+        stats["shrunk_from"] = str(problem.input_value(found))
     return smaller
 
 
@@ -85,18 +85,22 @@ class SmtEngine:
             if left <= 0:
                 return Verdict(UNKNOWN, self.name, 0.0, covered="no query was posed",
                                reason="the time limit was reached", stats=stats)
-        assertions = [_wrong_condition(problem, encoder, self.form)]
-        if problem.max_input is not None:
+        if problem.spec != "bin2bcd":
+            # Other specifications state their own contract and "wrong" (one form each).
+            assertions = problem.miter(encoder, self.form)
+            stats["form"] = "multiply"
+        else:
+            assertions = [_wrong_condition(problem, encoder, self.form)]
+        if problem.spec == "bin2bcd" and problem.max_input is not None:
             assertions.append(z3.ULE(encoder.term(problem.x),
                                      z3.BitVecVal(problem.max_input, problem.width)))
         answer = check_within(solver, left, assertions)
         seconds = time.monotonic() - started
         stats["solver_seconds"] = round(seconds, 3)
-        range_text = (f"every input 0 .. {problem.top_value:,}" if problem.max_input is not None
-                      else f"every {problem.width}-bit input")
+        range_text = problem.contract_words()
         if answer == z3.unsat:
             return Verdict(PROVED, self.name, seconds,
-                           covered=f"{range_text}, by one miter ({self.form} form), unsat",
+                           covered=f"{range_text}, by one miter ({stats['form']} form), unsat",
                            stats=stats)
         if answer == z3.sat:
             model = solver.model()
@@ -111,7 +115,7 @@ class SmtEngine:
             found = _shrunk(problem, found, budget, stats)
             return Verdict(DISPROVED, self.name, time.monotonic() - started,
                            counterexample=found, covered=f"{range_text}, by one miter "
-                                                         f"({self.form} form)", stats=stats)
+                                                         f"({stats['form']} form)", stats=stats)
         why = solver.reason_unknown()
         out_of_time = left is not None and time.monotonic() - started >= left * 0.95
         reason = ("solver stopped at the time limit"

@@ -50,6 +50,8 @@ def check_record(result) -> dict:
     record = _verdict_record(result.verdict)
     record["engine_requested"] = result.engine
     record["seconds"] = round(result.seconds, 6)
+    if problem.spec != "bin2bcd":
+        return _spec_record(result, record)
     record["design"] = {
         "files": list(model.files),
         "top": model.top,
@@ -67,6 +69,51 @@ def check_record(result) -> dict:
                                   **_verdict_record(result.digits_check)}
     record["notes"] = list(result.notes)
     return record
+
+
+def _spec_record(result, record: dict) -> dict:
+    """The bcd2bin and signed reports: ``spec``, the ports by role, the widths, and with a
+    counterexample ``input_value`` (the digits' number, or the signed input) beside the
+    port values, and ``not_checked`` (outputs that do not matter at that input)."""
+    model, problem = result.model, result.problem
+    record["spec"] = problem.spec
+    ports = {"inputs": list(problem.input_ports), "outputs": list(problem.output_ports),
+             "checked": list(problem.checked_names), "reasons": list(problem.reasons),
+             "ties": {k: str(v) for k, v in problem.ties.items()}}
+    if problem.spec == "bcd2bin":
+        ports["invalid_flag"] = problem.flag_port
+        widths = {"digits": problem.digit_count, "output": problem.out_width,
+                  "output_needed": problem.needed_bits()}
+    else:
+        ports["sign"] = problem.sign_port
+        widths = {"input": problem.width, "digits": problem.digit_count,
+                  "digits_needed": problem.needed_digits(),
+                  "digits_needed_positive": problem.needed_digits_positive()}
+    record["design"] = {"files": list(model.files), "top": model.top,
+                        "parameters": {k: str(v) for k, v in model.parameters.items()},
+                        "ports": ports, "widths": widths}
+    for verdict, key in ((result.verdict, None), (result.digits_check, "digits_check")):
+        if verdict is None:
+            continue
+        target = record if key is None else record.setdefault(key, {})
+        if key is not None:
+            target.update({"below": str(problem.capacity()), **_verdict_record(verdict)})
+        if verdict.counterexample is not None:
+            x = problem.input_value(verdict.counterexample)
+            value = (problem.signed_value(x) if problem.spec == "signed"
+                     else _digits_number(problem, x))
+            target["counterexample"]["input_value"] = None if value is None else str(value)
+            # Positions of checked outputs that do not matter at this input (the binary value
+            # next to a raised invalid-digit flag): their "expected" is the actual value.
+            target["counterexample"]["not_checked"] = [
+                i for i, want in enumerate(problem.expectation(x).values) if want is None]
+    record["notes"] = list(result.notes)
+    return record
+
+
+def _digits_number(problem, x: int):
+    from ..spec.bcd2bin import bcd_value
+    return bcd_value(x, problem.digit_count)
 
 
 def check_json(result) -> str:

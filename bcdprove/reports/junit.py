@@ -48,9 +48,9 @@ def check_junit(result) -> str:
     from .text import check_report
 
     problem = result.problem
-    checks = [(f"{result.model.top}: bin2bcd", result.verdict)]
+    checks = [(f"{result.model.top}: {problem.spec}", result.verdict)]
     if result.digits_check is not None:
-        checks.append((f"{result.model.top}: bin2bcd below {problem.capacity()}",
+        checks.append((f"{result.model.top}: {problem.spec} below {problem.capacity()}",
                        result.digits_check))
     return _document(checks, f"bcdprove.{result.model.top}", result.seconds, check_report(result))
 

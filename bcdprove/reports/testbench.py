@@ -79,7 +79,11 @@ def dut_lines(model, overrides) -> list[str]:
 
 
 def write_testbench(result, limit: int = 64) -> str:
-    """The test bench text (see the module docstring)."""
+    """The test bench text (see the module docstring); for a bcd2bin or signed check the
+    one of :mod:`.spec_testbench`."""
+    if result.problem.spec != "bin2bcd":
+        from .spec_testbench import write_spec_testbench
+        return write_spec_testbench(result, limit)
     problem, model = result.problem, result.model
     port = problem.input_ports[0]
     lines = [f"// Self-checking test bench for `{model.top}`, written by bcdprove check.",

@@ -70,6 +70,9 @@ def verdict_lines(label: str, verdict: Verdict) -> list[str]:
 
 def check_report(result) -> str:
     """The whole report as one string (no trailing newline)."""
+    if result.problem.spec != "bin2bcd":
+        from .spec_text import spec_report
+        return spec_report(result)
     model, problem, verdict = result.model, result.problem, result.verdict
     lines = [f"bcdprove check: module `{model.top}`"]
     lines.append(f"{'files':<12}{', '.join(model.files)}")

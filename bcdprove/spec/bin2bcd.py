@@ -60,6 +60,8 @@ class Bin2BcdProblem:
     _free: list | None = field(default=None, repr=False, compare=False)
     _order: list | None = field(default=None, repr=False, compare=False)
 
+    spec = "bin2bcd"
+
     # reference -------------------------------------------------------------------------
     @property
     def digit_count(self) -> int:
@@ -127,6 +129,44 @@ class Bin2BcdProblem:
                                   graph.zext(digit, wide))
             self._ok_node = graph.and_(ok, graph.eq(value, graph.zext(self.x, wide)))
         return self._ok_node
+
+    # the contract as the engines walk it (see spec/checked_outputs.py for the interface) ----
+    def input_value(self, found: Counterexample) -> int:
+        """The binary input a counterexample was found at."""
+        return found.inputs[self.input_ports[0]]
+
+    def in_domain(self, x: int) -> bool:
+        return 0 <= x <= self.top_value
+
+    def domain_size(self) -> int:
+        """How many inputs the contract holds: 0 .. top_value."""
+        return self.top_value + 1
+
+    def domain_value(self, index: int) -> int:
+        return index
+
+    def domain_planes(self, low: int, count: int) -> list[int]:
+        """Planes of the inputs ``low .. low + count - 1``, one per lane."""
+        from ..model.simulate import counting_planes
+
+        return counting_planes(low, count, self.width)
+
+    def span_words(self, low: int, high: int) -> str:
+        return f"{low:,} .. {high:,}"
+
+    def contract_words(self) -> str:
+        return (f"every input 0 .. {self.top_value:,}" if self.max_input is not None
+                else f"every {self.width}-bit input")
+
+    def corner_inputs(self) -> list[int]:
+        from .inputs import corner_values
+
+        return corner_values(self.width, self.top_value)
+
+    def random_inputs(self, count: int, rng) -> list[int]:
+        from .inputs import random_values
+
+        return random_values(self.width, self.top_value, count, rng)
 
     # replay --------------------------------------------------------------------------------
     def evaluate(self, x: int, free_values: Mapping[int, int] | None = None) -> list[int]:

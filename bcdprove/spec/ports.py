@@ -90,9 +90,10 @@ def _find(model: Model, name: str, direction: str) -> Port:
 
 
 def choose_outputs(model: Model, named: list[str] | None,
-                   msd_first: bool) -> tuple[list[str], str, bool]:
+                   msd_first: bool, exclude: tuple[str, ...] = ()) -> tuple[list[str], str, bool]:
     """The digit output ports (least significant first), the reason, and whether numbered
-    ports were read most significant first.
+    ports were read most significant first.  Ports in ``exclude`` (a sign output) are
+    never inferred as digits.
 
     Raises BcdproveError when a named port is not an output or the choice is ambiguous.
     """
@@ -104,11 +105,12 @@ def choose_outputs(model: Model, named: list[str] | None,
             return [ports[0].name], f"output `{ports[0].name}`: named with --out", False
         return ([p.name for p in ports],
                 f"outputs {_names(ports)}: named with --out, least significant digit first", False)
-    outputs = model.outputs
+    outputs = [p for p in model.outputs if p.name not in exclude]
     if not outputs:
         raise BcdproveError(f"module `{model.top}` has no output port to read digits from")
     if len(outputs) == 1:
-        return [outputs[0].name], f"output `{outputs[0].name}`: the only output", False
+        why = "the only output" if not exclude else "the only other output"
+        return [outputs[0].name], f"output `{outputs[0].name}`: {why}", False
     groups = _digit_groups(outputs, msd_first)
     if len(groups) == 1:
         ordered, pattern = groups[0]
@@ -169,3 +171,74 @@ def _run_from_zero(places: dict[int, str]) -> list[str] | None:
     if len(places) < 2 or sorted(places) != list(range(len(places))):
         return None
     return [places[i] for i in range(len(places))]
+
+
+def choose_digit_inputs(model: Model, named: list[str] | None,
+                        ties: dict[str, int]) -> tuple[list[str], str]:
+    """The BCD digit input ports (least significant digit first) and the reason.
+
+    Named ports are taken in the order given; otherwise the only untied input, a run of
+    inputs named as digits (``ones``/``tens``, ``bcd0``..), or the only input wider than one
+    bit.  Raises BcdproveError when a named port is not an input, is tied, or the choice is
+    ambiguous.
+    """
+    if named:
+        ports = [_find(model, n, "input") for n in named]
+        if len({p.name for p in ports}) != len(ports):
+            raise BcdproveError(f"--in names a port twice: {', '.join(named)}")
+        tied = [p.name for p in ports if p.name in ties]
+        if tied:
+            raise BcdproveError(f"input `{tied[0]}` is both a digit input and tied with --tie")
+        if len(ports) == 1:
+            return [ports[0].name], f"input `{ports[0].name}`: named with --in"
+        return ([p.name for p in ports],
+                f"inputs {_names(ports)}: named with --in, least significant digit first")
+    candidates = [p for p in model.inputs if p.name not in ties]
+    if not candidates:
+        raise BcdproveError(f"module `{model.top}` has no untied input port to read digits from")
+    if len(candidates) == 1:
+        why = "the only input" if not ties else "the only input not tied"
+        return [candidates[0].name], f"input `{candidates[0].name}`: {why}"
+    groups = _digit_groups(candidates, False)
+    if len(groups) == 1:
+        ordered, pattern = groups[0]
+        rest = [p for p in candidates if p.name not in ordered]
+        free = f"; {_names(rest)} left free: tie them with --tie PORT=VALUE" if rest else ""
+        return ordered, (f"inputs {', '.join(f'`{n}`' for n in ordered)}: inferred from the "
+                         f"{pattern}, least significant digit first{free}")
+    wide = [p for p in candidates if p.width > 1]
+    if not groups and len(wide) == 1:
+        narrow = [p for p in candidates if p.width == 1]
+        return [wide[0].name], (f"input `{wide[0].name}`: the only input wider than one bit "
+                                f"({_names(narrow)} left free: tie them with --tie PORT=VALUE)")
+    raise BcdproveError(f"module `{model.top}` has several inputs ({_names(candidates)}) and no "
+                        f"single digit naming pattern; name the digit inputs with --in PORT "
+                        f"(a comma-separated list, least significant digit first)")
+
+
+def choose_value_output(model: Model, named: list[str] | None,
+                        exclude: list[str]) -> tuple[str, str]:
+    """The one output holding a binary value (BCD-to-binary), and the reason.
+
+    ``exclude``: outputs with another role (the invalid-digit flag).  Raises BcdproveError
+    for a port that is not an output, several named ports, or an ambiguous choice.
+    """
+    if named:
+        if len(named) != 1:
+            raise BcdproveError(f"--out takes one binary output port for --spec bcd2bin, got "
+                                f"{len(named)}: {', '.join(named)}")
+        port = _find(model, named[0], "output")
+        return port.name, f"output `{port.name}`: named with --out"
+    outputs = [p for p in model.outputs if p.name not in exclude]
+    if not outputs:
+        raise BcdproveError(f"module `{model.top}` has no output port for the binary value")
+    if len(outputs) == 1:
+        why = "the only output" if not exclude else "the only output besides the flag"
+        return outputs[0].name, f"output `{outputs[0].name}`: {why}"
+    wide = [p for p in outputs if p.width > 1]
+    if len(wide) == 1:
+        rest = [p for p in outputs if p is not wide[0]]
+        return wide[0].name, (f"output `{wide[0].name}`: the only output wider than one bit "
+                              f"({_names(rest)} ignored)")
+    raise BcdproveError(f"module `{model.top}` has several outputs ({_names(outputs)}); name "
+                        f"the binary output with --out PORT")

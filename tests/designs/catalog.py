@@ -44,6 +44,11 @@ class Entry:
         return [DESIGNS / d for d in self.raw.get("include_dirs", [])]
 
     @property
+    def spec(self) -> str:
+        """The specification the entry is checked against (bin2bcd when the field is absent)."""
+        return self.raw.get("spec", "bin2bcd")
+
+    @property
     def slow(self) -> bool:
         """Entries marked slow are simulated only in the long run (``-m slow``)."""
         return bool(self.raw.get("slow", False))
@@ -54,11 +59,14 @@ class Entry:
         return f"{self.file}[{params}]" if params else self.file
 
 
-def load_catalog(path: Path = CATALOG) -> list[Entry]:
-    """Every entry of the catalogue, in file order; a missing required field raises KeyError."""
+def load_catalog(path: Path = CATALOG, spec: str | None = "bin2bcd") -> list[Entry]:
+    """The entries checked against ``spec`` (every entry for None), in file order; a missing
+    required field raises KeyError."""
     data = json.loads(path.read_text())
     entries = []
     for item in data["designs"]:
+        if spec is not None and item.get("spec", "bin2bcd") != spec:
+            continue
         entries.append(Entry(
             file=item["file"], top=item["top"], width=int(item["width"]),
             parameters=dict(item.get("parameters", {})), inputs=list(item["in"]),

@@ -17,15 +17,8 @@ from ..engines.base import Counterexample
 from ..errors import BcdproveError
 from ..model.design import Model
 from ..model.node import Node, Op, evaluate, leaves, mask, substitute, topological
+from ._replay import ReplaysOnModel, ReplayUndecided  # noqa: F401 (ReplayUndecided re-exported)
 from .ports import choose_input, choose_outputs
-
-
-class ReplayUndecided(Exception):
-    """z3 could not say whether some choice of unknown values makes the digits wrong at an
-    input; the caller must not count that input as right (engines turn this into unknown)."""
-
-
-REPLAY_SOLVER_SECONDS = 60
 
 
 def decimal_digits(value: int, count: int) -> list[int]:
@@ -40,7 +33,7 @@ def digits_needed(value: int) -> int:
 
 
 @dataclass
-class Bin2BcdProblem:
+class Bin2BcdProblem(ReplaysOnModel):
     """One binary-to-BCD check, ready for any engine (see the module docstring)."""
 
     model: Model
@@ -207,55 +200,11 @@ class Bin2BcdProblem:
             result.append(right)
         return result
 
-    def _run_ternary(self, lanes: int, x_planes: list[int], given: Mapping[int, int]):
-        from ..model.simulate import Simulator, pack
+    def _replayed_nodes(self) -> list[Node]:
+        return self.digits
 
-        if self._simulator is None:
-            self._simulator = Simulator(self.digits)
-        everyone = mask(lanes)
-        values, unknown = {self.x.id: x_planes}, {}
-        for leaf in self._simulator.leaves:
-            if leaf is self.x:
-                continue
-            if leaf.id in given:
-                values[leaf.id] = pack([given[leaf.id]] * lanes, leaf.width)
-            elif leaf.op != Op.FREE:       # an input must be given: mark it unknown instead
-                values[leaf.id] = [0] * leaf.width
-                unknown[leaf.id] = [everyone] * leaf.width
-        return self._simulator.run(lanes, values, unknown)
-
-    def replay(self, x: int, free_values: Mapping[int, int] | None = None) -> Counterexample | None:
-        """Simulate the model at ``x``; a replayed Counterexample when the output is wrong, else None.
-
-        Free leaves missing from ``free_values`` are unknown: a three-valued simulation shows
-        whether the digits depend on them at ``x``.  When they do not, the digits are compared
-        as they are; when they do, zero is tried for each, and if that gives right digits z3
-        looks (with ``x`` fixed) for a choice that makes a digit wrong.  None therefore means
-        right for every choice.  An ``x`` of 10**D or more is always wrong: D digits cannot
-        show it.
-        """
-        if not 0 <= x <= mask(self.width):
-            raise ValueError(f"input {x} does not fit in {self.width} bits")
-        given = dict(free_values or {})
-        unchosen = [leaf for leaf in self.free_leaves() if leaf.id not in given]
-        trial = dict(given)
-        trial.update({leaf.id: 0 for leaf in unchosen})
-        found = self._compare(x, trial)
-        if found is None and unchosen and self._depends_on_unknowns(x, given):
-            choice = self._solve_free(x, given, unchosen)
-            if choice is not None:
-                found = self._compare(x, choice)
-                if found is None:
-                    raise AssertionError("z3 choice of free values did not replay as wrong; "
-                                         "the model and its z3 translation disagree")
-        return found
-
-    def _depends_on_unknowns(self, x: int, given: Mapping[int, int]) -> bool:
-        """Whether some digit bit at ``x`` is unknown with the unchosen free leaves unknown."""
-        from ..model.simulate import pack
-
-        planes = self._run_ternary(1, pack([x], self.width), given)
-        return any(any(p.unknown) for p in planes)
+    def _wrong_terms(self, encoder, x: int) -> list:
+        return [encoder.term(d) != e for d, e in zip(self.digits, self.expected_digits(x))]
 
     def _compare(self, x: int, values: dict[int, int]) -> Counterexample | None:
         actual = self.evaluate(x, values)
@@ -280,35 +229,6 @@ class Bin2BcdProblem:
                     f"{self.digit_count}")
         return Counterexample(inputs=inputs, expected=expected, actual=actual, wrong=wrong,
                               free_values=free, replayed=True, note=note)
-
-    def _solve_free(self, x: int, given: dict[int, int],
-                    unchosen: list[Node]) -> dict[int, int] | None:
-        import z3
-
-        from ..model.smt import Z3Encoder, check_within
-
-        if self._encoder is None:
-            self._encoder = Z3Encoder()
-        encoder = self._encoder
-        solver = z3.Solver(ctx=encoder.ctx)
-        # Bounded so a replay can never hang a check; past it the replay is undecided and
-        # the engine's answer becomes unknown, never a guess.
-        solver.add(encoder.term(self.x) == x)
-        by_id = {leaf.id: leaf for leaf in self.free_leaves()}
-        for leaf_id, value in given.items():
-            if leaf_id in by_id:
-                solver.add(encoder.term(by_id[leaf_id]) == value)
-        expected = self.expected_digits(x)
-        solver.add(z3.Or(*[encoder.term(d) != e for d, e in zip(self.digits, expected)]))
-        answer = check_within(solver, REPLAY_SOLVER_SECONDS)
-        if answer == z3.unknown:
-            raise ReplayUndecided(f"the solver could not settle input {x} with its unknown "
-                                  f"values: {solver.reason_unknown()}")
-        if answer != z3.sat:
-            return None
-        values = dict(given)
-        values.update(encoder.leaf_values(solver.model(), unchosen))
-        return values
 
 
 def _parse_ties(model: Model, ties: Mapping[str, int] | None) -> dict[str, int]:

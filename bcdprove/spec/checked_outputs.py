@@ -23,7 +23,7 @@ from typing import Mapping, Optional
 from ..engines.base import Counterexample
 from ..model.design import Model
 from ..model.node import Node, Op, evaluate, leaves, mask, topological
-from .bin2bcd import REPLAY_SOLVER_SECONDS, ReplayUndecided
+from ._replay import ReplaysOnModel
 
 
 @dataclass
@@ -40,7 +40,7 @@ class Expectation:
 
 
 @dataclass
-class CheckedOutputsProblem:
+class CheckedOutputsProblem(ReplaysOnModel):
     """Base of the bcd2bin and signed problems; see the module docstring."""
 
     model: Model
@@ -97,30 +97,6 @@ class CheckedOutputsProblem:
         values[self.x.id] = x
         return evaluate(self.checked, values, self._order)
 
-    def replay(self, x: int, free_values: Mapping[int, int] | None = None) -> Counterexample | None:
-        """A replayed Counterexample when the outputs are wrong at ``x``, else None.
-
-        Free leaves missing from ``free_values`` are unknown: when a three-valued simulation
-        shows the outputs depend on them at ``x`` and zeros give right outputs, z3 looks
-        (with ``x`` fixed) for a choice that makes an output wrong.  None therefore means
-        right for every choice.  Raises ReplayUndecided when z3 cannot settle it.
-        """
-        if not 0 <= x <= mask(self.width):
-            raise ValueError(f"input {x} does not fit in {self.width} bits")
-        given = dict(free_values or {})
-        unchosen = [leaf for leaf in self.free_leaves() if leaf.id not in given]
-        trial = dict(given)
-        trial.update({leaf.id: 0 for leaf in unchosen})
-        found = self._compare(x, trial)
-        if found is None and unchosen and self._depends_on_unknowns(x, given):
-            choice = self._solve_free(x, given, unchosen)
-            if choice is not None:
-                found = self._compare(x, choice)
-                if found is None:
-                    raise AssertionError("z3 choice of free values did not replay as wrong; "
-                                         "the model and its z3 translation disagree")
-        return found
-
     def note_for(self, x: int, expectation: Expectation) -> str:
         """A sentence for the report about input ``x`` (the subclass may say more)."""
         return expectation.impossible
@@ -148,55 +124,13 @@ class CheckedOutputsProblem:
         return Counterexample(inputs=inputs, expected=expected, actual=actual, wrong=wrong,
                               free_values=free, replayed=True, note=self.note_for(x, expectation))
 
-    def _depends_on_unknowns(self, x: int, given: Mapping[int, int]) -> bool:
-        from ..model.simulate import Simulator, pack
+    def _replayed_nodes(self) -> list[Node]:
+        return self.checked
 
-        if self._simulator is None:
-            self._simulator = Simulator(self.checked)
-        values, unknown = {self.x.id: pack([x], self.width)}, {}
-        for leaf in self._simulator.leaves:
-            if leaf is self.x:
-                continue
-            if leaf.id in given:
-                values[leaf.id] = pack([given[leaf.id]], leaf.width)
-            elif leaf.op != Op.FREE:
-                values[leaf.id] = [0] * leaf.width
-                unknown[leaf.id] = [1] * leaf.width
-        planes = self._simulator.run(1, values, unknown)
-        return any(any(p.unknown) for p in planes)
-
-    def _solve_free(self, x: int, given: dict[int, int],
-                    unchosen: list[Node]) -> dict[int, int] | None:
-        import z3
-
-        from ..model.smt import Z3Encoder, check_within
-
-        expectation = self.expectation(x)
-        if self._encoder is None:
-            self._encoder = Z3Encoder()
-        encoder = self._encoder
-        solver = z3.Solver(ctx=encoder.ctx)
-        solver.add(encoder.term(self.x) == x)
-        by_id = {leaf.id: leaf for leaf in self.free_leaves()}
-        for leaf_id, value in given.items():
-            if leaf_id in by_id:
-                solver.add(encoder.term(by_id[leaf_id]) == value)
-        differs = [encoder.term(node) != want
-                   for node, want in zip(self.checked, expectation.values)
-                   if want is not None and want <= mask(node.width)]
-        if not differs:
-            return None
-        solver.add(z3.Or(*differs))
-        # Bounded so a replay never hangs a check; past it the engine's answer is unknown.
-        answer = check_within(solver, REPLAY_SOLVER_SECONDS)
-        if answer == z3.unknown:
-            raise ReplayUndecided(f"the solver could not settle input {x} with its unknown "
-                                  f"values: {solver.reason_unknown()}")
-        if answer != z3.sat:
-            return None
-        values = dict(given)
-        values.update(encoder.leaf_values(solver.model(), unchosen))
-        return values
+    def _wrong_terms(self, encoder, x: int) -> list:
+        return [encoder.term(node) != want
+                for node, want in zip(self.checked, self.expectation(x).values)
+                if want is not None and want <= mask(node.width)]
 
 
 def repeated_planes(pattern: int, period: int, phase: int, lanes: int) -> int:

@@ -123,6 +123,17 @@ def test_unknown_value_found_by_solver():
     assert problem.replay(8) is None              # digit 0 is 8, not 9: the hole is not used
 
 
+def test_unknown_value_the_output_does_not_read_there_is_not_reported_as_chosen():
+    # Threshold 6 instead of 5 breaks the conversion at 10 (common practice: the correction
+    # must fire for 5..9); the hole is only read where digit 0 comes out as 9, and at 10 it
+    # comes out as 10 (0xA), so no unknown value had to be chosen for the wrong output.
+    problem = build_problem(packed_converter(8, 3, threshold=6, free_default=True))
+    assert problem.free_leaves()
+    found = problem.replay(10)
+    assert found is not None and found.actual[0] == 10 and found.expected[0] == 0
+    assert found.free_values == {}
+
+
 def test_tie_errors():
     model = packed_converter(8, 3, enable=True)
     with pytest.raises(BcdproveError, match="no input port `nope`"):

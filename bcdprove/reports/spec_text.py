@@ -7,7 +7,7 @@ number), then each checked output with its expected and actual value.
 from __future__ import annotations
 
 from ..engines.base import DISPROVED, PROVED, Counterexample
-from .text import verdict_lines
+from .text import header_lines, outcome_lines
 
 
 def _rows(rows: list[tuple[str, ...]]) -> list[str]:
@@ -16,11 +16,10 @@ def _rows(rows: list[tuple[str, ...]]) -> list[str]:
             for row in rows]
 
 
-def _bcd2bin_counterexample(problem, found: Counterexample, heading: str) -> list[str]:
-    x = problem.input_value(found)
-    ports = ", ".join(f"{name} = 0x{found.inputs[name]:x}" for name in problem.input_ports)
-    lines = [f"{heading}: {problem.describe_input(x)}; {ports}"]
-    others = {k: v for k, v in found.inputs.items() if k not in problem.input_ports}
+def _setting_lines(found: Counterexample, data_ports: list[str]) -> list[str]:
+    """What else the counterexample sets: free inputs, unknown values, and its note."""
+    lines = []
+    others = {k: v for k, v in found.inputs.items() if k not in data_ports}
     if others:
         lines.append("  it also sets the free inputs "
                      + ", ".join(f"{k} = {v}" for k, v in others.items()))
@@ -29,6 +28,14 @@ def _bcd2bin_counterexample(problem, found: Counterexample, heading: str) -> lis
                      f"chosen to make the output wrong")
     if found.note:
         lines.append(f"  {found.note}")
+    return lines
+
+
+def _bcd2bin_counterexample(problem, found: Counterexample, heading: str) -> list[str]:
+    x = problem.input_value(found)
+    ports = ", ".join(f"{name} = 0x{found.inputs[name]:x}" for name in problem.input_ports)
+    lines = [f"{heading}: {problem.describe_input(x)}; {ports}"]
+    lines.extend(_setting_lines(found, problem.input_ports))
     expectation = problem.expectation(x)
     rows = [("output", "expected", "actual", "")]
     for i, name in enumerate(problem.checked_names):
@@ -44,15 +51,7 @@ def _signed_counterexample(problem, found: Counterexample, heading: str) -> list
     x = found.inputs[port]
     hex_digits = max(1, -(-problem.width // 4))
     lines = [f"{heading}: {port} = {problem.signed_value(x):,} (0x{x:0{hex_digits}x})"]
-    others = {k: v for k, v in found.inputs.items() if k != port}
-    if others:
-        lines.append("  it also sets the free inputs "
-                     + ", ".join(f"{k} = {v}" for k, v in others.items()))
-    if found.free_values:
-        lines.append(f"  with {len(found.free_values)} unknown value(s) (x in the design) "
-                     f"chosen to make the output wrong")
-    if found.note:
-        lines.append(f"  {found.note}")
+    lines.extend(_setting_lines(found, [port]))
     rows = [("output", "bits", "expected", "actual", "")]
     labels = ["sign"] + [f"digit {i}" for i in range(problem.digit_count)]
     order = [0] + list(reversed(range(1, len(found.actual))))
@@ -99,36 +98,14 @@ def _width_lines(problem) -> list[str]:
 
 def spec_report(result) -> str:
     """The whole report of a bcd2bin or signed check (no trailing newline)."""
-    model, problem, verdict = result.model, result.problem, result.verdict
-    lines = [f"bcdprove check: module `{model.top}`, --spec {problem.spec}"]
-    lines.append(f"{'files':<12}{', '.join(model.files)}")
-    if model.parameters:
-        lines.append(f"{'parameters':<12}"
-                     + ", ".join(f"{k}={v}" for k, v in sorted(model.parameters.items())))
-    for reason in problem.reasons:
-        lines.append(f"{'ports':<12}{reason}")
+    problem = result.problem
+    lines = header_lines(result, f"bcdprove check: module `{result.model.top}`, "
+                                 f"--spec {problem.spec}")
     lines.extend(_width_lines(problem))
-    if result.timeout is not None:
-        lines.append(f"{'time limit':<12}{result.timeout:g} s")
-    lines.append(f"{'engine':<12}{result.engine}")
-    lines.extend(verdict_lines("verdict", verdict))
     below = problem.capacity()
-    if result.digits_check is not None:
-        check = result.digits_check
-        lines.extend(verdict_lines(f"below {below:,}", check))
-        what = "the output" if problem.spec == "bcd2bin" else "the digits present"
-        summary = {PROVED: f"{what} is right for every value below {below:,}",
-                   DISPROVED: f"{what} is also wrong below {below:,}"}.get(
-                       check.status, f"{what} was not decided below {below:,}")
-        lines.append(f"{'':<12}{summary}")
-    lines.append(f"{'time':<12}{result.seconds:.2f} s in all")
-    for note in result.notes:
-        lines.append(f"{'note':<12}{note}")
-    if verdict.counterexample is not None:
-        lines.append("")
-        lines.extend(counterexample_lines(result, verdict.counterexample))
-    if result.digits_check is not None and result.digits_check.counterexample is not None:
-        lines.append("")
-        lines.extend(counterexample_lines(result, result.digits_check.counterexample,
-                                          heading=f"counterexample below {below:,}"))
+    what = "the output" if problem.spec == "bcd2bin" else "the digits present"
+    lines.extend(outcome_lines(result, counterexample_lines, {
+        PROVED: f"{what} is right for every value below {below:,}",
+        DISPROVED: f"{what} is also wrong below {below:,}",
+        "": f"{what} was not decided below {below:,}"}))
     return "\n".join(lines)

@@ -68,19 +68,56 @@ def verdict_lines(label: str, verdict: Verdict) -> list[str]:
     return lines
 
 
-def check_report(result) -> str:
-    """The whole report as one string (no trailing newline)."""
-    if result.problem.spec != "bin2bcd":
-        from .spec_text import spec_report
-        return spec_report(result)
-    model, problem, verdict = result.model, result.problem, result.verdict
-    lines = [f"bcdprove check: module `{model.top}`"]
-    lines.append(f"{'files':<12}{', '.join(model.files)}")
+def header_lines(result, title: str) -> list[str]:
+    """The first lines of every check report: what was read and which ports were taken."""
+    model, problem = result.model, result.problem
+    lines = [title, f"{'files':<12}{', '.join(model.files)}"]
     if model.parameters:
         lines.append(f"{'parameters':<12}"
                      + ", ".join(f"{k}={v}" for k, v in sorted(model.parameters.items())))
     for reason in problem.reasons:
         lines.append(f"{'ports':<12}{reason}")
+    return lines
+
+
+def outcome_lines(result, counterexample, below_words: dict[str, str]) -> list[str]:
+    """The last lines of every check report: engine, verdicts, time, notes, counterexamples.
+
+    ``counterexample(result, found, heading)`` writes one counterexample; ``below_words``
+    gives the sentence under the second verdict (values below the capacity) for proved,
+    disproved and anything else (key "").
+    """
+    problem, verdict = result.problem, result.verdict
+    lines = []
+    if result.timeout is not None:
+        lines.append(f"{'time limit':<12}{result.timeout:g} s")
+    lines.append(f"{'engine':<12}{result.engine}")
+    lines.extend(verdict_lines("verdict", verdict))
+    below = problem.capacity()
+    if result.digits_check is not None:
+        check = result.digits_check
+        lines.extend(verdict_lines(f"below {below:,}", check))
+        lines.append(f"{'':<12}{below_words.get(check.status, below_words[''])}")
+    lines.append(f"{'time':<12}{result.seconds:.2f} s in all")
+    for note in result.notes:
+        lines.append(f"{'note':<12}{note}")
+    if verdict.counterexample is not None:
+        lines.append("")
+        lines.extend(counterexample(result, verdict.counterexample))
+    if result.digits_check is not None and result.digits_check.counterexample is not None:
+        lines.append("")
+        lines.extend(counterexample(result, result.digits_check.counterexample,
+                                    heading=f"counterexample below {below:,}"))
+    return lines
+
+
+def check_report(result) -> str:
+    """The whole report as one string (no trailing newline)."""
+    if result.problem.spec != "bin2bcd":
+        from .spec_text import spec_report
+        return spec_report(result)
+    model, problem = result.model, result.problem
+    lines = header_lines(result, f"bcdprove check: module `{model.top}`")
     top = problem.top_value
     range_text = (f"inputs 0 .. {top:,} (--max-input)" if problem.max_input is not None
                   else f"all {problem.width}-bit inputs, 0 .. {top:,}")
@@ -93,27 +130,9 @@ def check_report(result) -> str:
                      f"{problem.capacity() - 1:,}; {problem.width} bits need "
                      f"{problem.needed_digits()} (smallest value that does not fit: "
                      f"{problem.capacity():,})")
-    if result.timeout is not None:
-        lines.append(f"{'time limit':<12}{result.timeout:g} s")
-    lines.append(f"{'engine':<12}{result.engine}")
-    lines.extend(verdict_lines("verdict", verdict))
-    if result.digits_check is not None:
-        check = result.digits_check
-        lines.extend(verdict_lines(f"below {problem.capacity():,}", check))
-        summary = {PROVED: "the digits present are right for every input below "
-                           f"{problem.capacity():,}",
-                   DISPROVED: "the digits present are also wrong below "
-                              f"{problem.capacity():,}"}.get(check.status,
-                                                              "the digits present were not decided")
-        lines.append(f"{'':<12}{summary}")
-    lines.append(f"{'time':<12}{result.seconds:.2f} s in all")
-    for note in result.notes:
-        lines.append(f"{'note':<12}{note}")
-    if verdict.counterexample is not None:
-        lines.append("")
-        lines.extend(counterexample_lines(result, verdict.counterexample))
-    if result.digits_check is not None and result.digits_check.counterexample is not None:
-        lines.append("")
-        lines.extend(counterexample_lines(result, result.digits_check.counterexample,
-                                          heading=f"counterexample below {problem.capacity():,}"))
+    below = problem.capacity()
+    lines.extend(outcome_lines(result, counterexample_lines, {
+        PROVED: f"the digits present are right for every input below {below:,}",
+        DISPROVED: f"the digits present are also wrong below {below:,}",
+        "": "the digits present were not decided"}))
     return "\n".join(lines)

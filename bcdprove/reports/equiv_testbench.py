@@ -15,6 +15,7 @@ from __future__ import annotations
 
 from ..engines.difference_hunt import corner_vectors
 from ..model.simulate import Simulator, pack
+from .testbench import failure_lines, vector_loop_closing, vector_loop_opening
 
 TESTBENCH_MODULE = "bcdprove_equiv_tb"
 
@@ -67,9 +68,7 @@ def write_equiv_testbench(result, limit: int = 64) -> str:
     lines.append(_instance(result.model_b, result.overrides_b, "dut_b",
                            lambda p: name_of_b[p.name] if p.name in name_of_b
                            else f"bcdprove_b_{outputs_b[p.name].name_a}"))
-    lines.append("  integer bcdprove_vectors;")
-    lines.append("  initial begin")
-    lines.append("    bcdprove_vectors = 0;")
+    lines.extend(vector_loop_opening())
     vectors = []
     found = result.verdict.counterexample
     if found is not None:
@@ -85,14 +84,10 @@ def write_equiv_testbench(result, limit: int = 64) -> str:
         lines.append("    #1;")
         for out in problem.outputs:
             a, b = f"bcdprove_a_{out.name_a}", f"bcdprove_b_{out.name_a}"
-            lines.append(f"    if (({a} !== {b}) || (^{a} === 1'bx) || (^{b} === 1'bx)) begin")
-            lines.append(f'      $display("bcdprove testbench: FAIL at vector {index} '
-                         f'({", ".join(described)}): {out.label} %h against %h", {a}, {b});')
-            lines.append("      $finish;")
-            lines.append("    end")
+            lines.extend(failure_lines(f"({a} !== {b}) || (^{a} === 1'bx) || (^{b} === 1'bx)",
+                                       f'"bcdprove testbench: FAIL at vector {index} '
+                                       f'({", ".join(described)}): {out.label} %h against %h", '
+                                       f'{a}, {b}'))
         lines.append("    bcdprove_vectors = bcdprove_vectors + 1;")
-    lines.append('    $display("bcdprove testbench: PASS %0d vectors", bcdprove_vectors);')
-    lines.append("    $finish;")
-    lines.append("  end")
-    lines.append("endmodule")
+    lines.extend(vector_loop_closing())
     return "\n".join(lines) + "\n"

@@ -10,7 +10,8 @@ corner values the model shows right with every free input at 0.
 """
 from __future__ import annotations
 
-from .testbench import TESTBENCH_MODULE, dut_lines
+from .testbench import (TESTBENCH_MODULE, dut_lines, failure_lines, vector_loop_closing,
+                        vector_loop_opening)
 
 
 def _vectors(result, limit: int) -> list[tuple[int, dict[str, int]]]:
@@ -43,11 +44,7 @@ def write_spec_testbench(result, limit: int = 64) -> str:
              "`timescale 1ns/1ps",
              f"module {TESTBENCH_MODULE};"]
     lines.extend(dut_lines(model, result.overrides))
-    lines.append("  integer bcdprove_vectors;   // prefixed: a design port may be called vectors")
-    lines.append("  initial begin")
-    lines.append("    bcdprove_vectors = 0;")
-    for name, value in problem.ties.items():
-        lines.append(f"    {name} = {model.port(name).width}'d{value};")
+    lines.extend(vector_loop_opening(problem.ties, model))
     for x, others in _vectors(result, limit):
         for name, value in problem.input_fields(x).items():
             lines.append(f"    {name} = {model.port(name).width}'d{value};")
@@ -63,14 +60,9 @@ def write_spec_testbench(result, limit: int = 64) -> str:
             checks.append(f"{source} !== {_constant(want, width)}")
         described = problem.describe_input(x).replace('"', "'")
         shown = ", ".join(f"{name} = %0d" for name in problem.checked_names)
-        lines.append(f"    if ({' || '.join(checks) or '1 == 0'}) begin")
-        lines.append(f'      $display("bcdprove testbench: FAIL at input {described}: {shown}", '
-                     f'{", ".join(problem.checked_names)});')
-        lines.append("      $finish;")
-        lines.append("    end")
+        lines.extend(failure_lines(' || '.join(checks) or '1 == 0',
+                                   f'"bcdprove testbench: FAIL at input {described}: {shown}", '
+                                   f'{", ".join(problem.checked_names)}'))
         lines.append("    bcdprove_vectors = bcdprove_vectors + 1;")
-    lines.append('    $display("bcdprove testbench: PASS %0d vectors", bcdprove_vectors);')
-    lines.append("    $finish;")
-    lines.append("  end")
-    lines.append("endmodule")
+    lines.extend(vector_loop_closing())
     return "\n".join(lines) + "\n"

@@ -78,6 +78,32 @@ def dut_lines(model, overrides) -> list[str]:
     return lines
 
 
+def vector_loop_opening(ties: dict[str, int] | None = None, model=None) -> list[str]:
+    """The vector counter and the start of the initial block, with tied inputs set."""
+    lines = ["  integer bcdprove_vectors;   // prefixed: a design port may be called vectors",
+             "  initial begin",
+             "    bcdprove_vectors = 0;"]
+    for name, value in (ties or {}).items():
+        lines.append(f"    {name} = {model.port(name).width}'d{value};")
+    return lines
+
+
+def failure_lines(condition: str, message: str) -> list[str]:
+    """Stop with ``message`` (a $display argument list) when ``condition`` holds; else count."""
+    return [f"    if ({condition}) begin",
+            f"      $display({message});",
+            "      $finish;",
+            "    end"]
+
+
+def vector_loop_closing() -> list[str]:
+    """The PASS line and the end of the test bench module."""
+    return ['    $display("bcdprove testbench: PASS %0d vectors", bcdprove_vectors);',
+            "    $finish;",
+            "  end",
+            "endmodule"]
+
+
 def write_testbench(result, limit: int = 64) -> str:
     """The test bench text (see the module docstring); for a bcd2bin or signed check the
     one of :mod:`.spec_testbench`."""
@@ -92,11 +118,7 @@ def write_testbench(result, limit: int = 64) -> str:
              "`timescale 1ns/1ps",
              f"module {TESTBENCH_MODULE};"]
     lines.extend(dut_lines(model, result.overrides))
-    lines.append("  integer bcdprove_vectors;   // prefixed: a design port may be called vectors")
-    lines.append("  initial begin")
-    lines.append("    bcdprove_vectors = 0;")
-    for name, value in problem.ties.items():
-        lines.append(f"    {name} = {model.port(name).width}'d{value};")
+    lines.extend(vector_loop_opening(problem.ties, model))
     for x, others in _vectors(result, limit):
         lines.append(f"    {port} = {problem.width}'d{x};")
         for name, value in others.items():
@@ -113,15 +135,10 @@ def write_testbench(result, limit: int = 64) -> str:
         shown = " ".join("%0d" for _ in problem.digits)
         actual = ", ".join(problem.digit_sources[i] for i in reversed(range(problem.digit_count)))
         want = " ".join(str(d) for d in reversed(expected))
-        lines.append(f"    if ({' || '.join(checks)}) begin")
-        lines.append(f'      $display("bcdprove testbench: FAIL at input {x}: expected digits '
-                     f'{want}, got {shown}", {actual});')
-        lines.append("      $finish;")
-        lines.append("    end")
+        lines.extend(failure_lines(' || '.join(checks),
+                                   f'"bcdprove testbench: FAIL at input {x}: expected digits '
+                                   f'{want}, got {shown}", {actual}'))
         lines.append("    bcdprove_vectors = bcdprove_vectors + 1;")
-    lines.append('    $display("bcdprove testbench: PASS %0d vectors", bcdprove_vectors);')
-    lines.append("    $finish;")
-    lines.append("  end")
-    lines.append("endmodule")
+    lines.extend(vector_loop_closing())
     return "\n".join(lines) + "\n"
 

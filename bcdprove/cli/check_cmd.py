@@ -14,7 +14,7 @@ from ..engines.smt_miter import DEFAULT_FORM
 from ..errors import BcdproveError
 from . import _design_options as opt
 from . import _clocked_options as clocked
-from ._options import parse_assignments, parse_number, write_text_file
+from ._options import parse_assignments, parse_number
 
 
 def register(app: typer.Typer) -> None:
@@ -140,24 +140,18 @@ def check_command(
                              started=started, progress=progress, spec=spec,
                              invalid_flag=invalid_flag, sign=sign)
     result.overrides = parse_assignments(param or [], "--param")
-    if junit:
-        from ..reports.junit import check_junit
-        write_text_file(junit, check_junit(result), "JUnit report")
-    if testbench_path:
-        from ..reports.testbench import write_testbench
-        write_text_file(testbench_path, write_testbench(result), "test bench")
-    if as_json:
-        from ..reports.json_report import check_json
-        typer.echo(check_json(result))
-    elif quiet:
-        typer.echo(_verdict_line(result))
-    else:
-        from ..reports.text import check_report
-        typer.echo(check_report(result))
-        if junit:
-            typer.echo(f"{'junit':<12}{junit} (unknown is written as an error element)")
-        if testbench_path:
-            typer.echo(f"{'testbench':<12}{testbench_path} (top module bcdprove_tb)")
+    from ..reports.json_report import check_json
+    from ..reports.junit import check_junit
+    from ..reports.testbench import write_testbench
+    from ..reports.text import check_report
+    from ._output import ReportFile, deliver
+
+    deliver([ReportFile("junit", junit, "JUnit report", lambda: check_junit(result),
+                        "(unknown is written as an error element)"),
+             ReportFile("testbench", testbench_path, "test bench",
+                        lambda: write_testbench(result), "(top module bcdprove_tb)")],
+            as_json=as_json, json_text=lambda: check_json(result), quiet=quiet,
+            verdict_line=lambda: _verdict_line(result), report=lambda: check_report(result))
     if result.exit_code:
         # SystemExit, not typer.Exit: click returns (drops) an Exit's code when the entry
         # point runs it with standalone_mode=False, and the verdict must reach the shell.

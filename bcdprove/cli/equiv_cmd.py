@@ -15,7 +15,7 @@ import typer
 from ..errors import BcdproveError
 from . import _clocked_options as clocked
 from . import _design_options as opt
-from ._options import parse_assignments, write_text_file
+from ._options import parse_assignments
 
 
 def register(app: typer.Typer) -> None:
@@ -122,24 +122,18 @@ def equiv_command(
                           clock=clock, reset=reset, reset_low=reset_low, start=start, done=done,
                           hold_input=hold_input, started=started)
     result.overrides_a, result.overrides_b = overrides_a, overrides_b
-    if junit:
-        from ..reports.junit import equiv_junit
-        write_text_file(junit, equiv_junit(result), "JUnit report")
-    if testbench_path:
-        from ..reports.equiv_testbench import write_equiv_testbench
-        write_text_file(testbench_path, write_equiv_testbench(result), "test bench")
-    if as_json:
-        from ..reports.json_report import equiv_json
-        typer.echo(equiv_json(result))
-    elif quiet:
-        typer.echo(_verdict_line(result))
-    else:
-        from ..reports.equiv_text import equiv_report
-        typer.echo(equiv_report(result))
-        if junit:
-            typer.echo(f"{'junit':<12}{junit} (unknown is written as an error element)")
-        if testbench_path:
-            typer.echo(f"{'testbench':<12}{testbench_path} (top module bcdprove_equiv_tb; "
-                       f"compile it with both designs' files)")
+    from ..reports.equiv_testbench import write_equiv_testbench
+    from ..reports.equiv_text import equiv_report
+    from ..reports.json_report import equiv_json
+    from ..reports.junit import equiv_junit
+    from ._output import ReportFile, deliver
+
+    deliver([ReportFile("junit", junit, "JUnit report", lambda: equiv_junit(result),
+                        "(unknown is written as an error element)"),
+             ReportFile("testbench", testbench_path, "test bench",
+                        lambda: write_equiv_testbench(result),
+                        "(top module bcdprove_equiv_tb; compile it with both designs' files)")],
+            as_json=as_json, json_text=lambda: equiv_json(result), quiet=quiet,
+            verdict_line=lambda: _verdict_line(result), report=lambda: equiv_report(result))
     if result.exit_code:
         raise SystemExit(result.exit_code)

@@ -28,7 +28,7 @@ from ..model.design import Model
 from ..model.node import Node, mask, substitute
 from .bin2bcd import _parse_ties, _where
 from .checked_outputs import CheckedOutputsProblem, Expectation, repeated_planes
-from .ports import choose_digit_inputs, choose_value_output
+from .ports import choose_digit_inputs, choose_value_output, refuse_clocked
 
 
 def to_bcd(value: int) -> int:
@@ -315,12 +315,7 @@ def build_problem(model: Model, inputs: list[str] | None = None, outputs: list[s
     exactly when a digit is above 9.  Raises BcdproveError for a clocked model, ports that
     do not exist, are ambiguous or are not whole digits, or a bad tie.
     """
-    if model.is_clocked:
-        names = ", ".join(r.name for r in model.registers[:4])
-        first = model.registers[0].loc
-        raise BcdproveError(f"module `{model.top}` has registers ({names}); --spec bcd2bin "
-                            f"checks combinational converters only, clocked ones are not "
-                            f"supported yet", *((first.file, first.line) if first else ()))
+    refuse_clocked(model, "bcd2bin")
     tie_values = _parse_ties(model, ties)
     input_names, input_reason = choose_digit_inputs(model, inputs, tie_values)
     if invalid_flag is not None:

@@ -242,3 +242,15 @@ def choose_value_output(model: Model, named: list[str] | None,
                               f"({_names(rest)} ignored)")
     raise BcdproveError(f"module `{model.top}` has several outputs ({_names(outputs)}); name "
                         f"the binary output with --out PORT")
+
+
+def refuse_clocked(model, spec: str) -> None:
+    """BcdproveError at the first register when ``model`` is clocked: a ``spec`` problem is
+    built on a combinational model (clocked ones are unrolled first, bin2bcd only)."""
+    if not model.is_clocked:
+        return
+    names = ", ".join(r.name for r in model.registers[:4])
+    first = model.registers[0].loc
+    raise BcdproveError(f"module `{model.top}` has registers ({names}); --spec {spec} checks "
+                        f"combinational converters only, clocked ones are not supported yet",
+                        *((first.file, first.line) if first else ()))

@@ -22,7 +22,7 @@ from ..model.design import Model
 from ..model.node import Node, mask, substitute, to_signed
 from .bin2bcd import _parse_ties, _split_digits, _where, decimal_digits, digits_needed
 from .checked_outputs import CheckedOutputsProblem, Expectation, concat_planes
-from .ports import choose_input, choose_outputs
+from .ports import choose_input, choose_outputs, refuse_clocked
 
 _SIGN_WORDS = ("sign", "neg", "minus")
 
@@ -280,12 +280,7 @@ def build_problem(model: Model, inputs: list[str] | None = None, outputs: list[s
     Raises BcdproveError for a clocked model, a missing or ambiguous sign, data input or
     digit output, a sign port among the digit ports, or a bad tie.
     """
-    if model.is_clocked:
-        names = ", ".join(r.name for r in model.registers[:4])
-        first = model.registers[0].loc
-        raise BcdproveError(f"module `{model.top}` has registers ({names}); --spec signed "
-                            f"checks combinational converters only, clocked ones are not "
-                            f"supported yet", *((first.file, first.line) if first else ()))
+    refuse_clocked(model, "signed")
     tie_values = _parse_ties(model, ties)
     input_name, input_reason = choose_input(model, inputs, tie_values)
     sign_name, sign_reason = _choose_sign(model, sign)

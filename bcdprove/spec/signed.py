@@ -270,7 +270,7 @@ def _choose_sign(model: Model, sign: str | None) -> tuple[str, str]:
         return named[0].name, (f"output `{named[0].name}`: the sign, the only 1-bit output "
                                f"named like one (sign, neg, minus)")
     raise BcdproveError("--spec signed needs the sign output: name it with --sign PORT "
-                        f"(the output that is 1 for a negative input)")
+                        "(the output that is 1 for a negative input)")
 
 
 def build_problem(model: Model, inputs: list[str] | None = None, outputs: list[str] | None = None,

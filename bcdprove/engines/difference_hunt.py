@@ -18,7 +18,7 @@ from typing import Sequence
 from ..model.node import Node, mask
 from ..model.simulate import Simulator, pack
 from .base import Budget
-from .random_sim import corner_values, random_values
+from ..spec.inputs import corner_values, random_values
 
 CHUNK = 1 << 12
 SHRINK_SECONDS = 2.0

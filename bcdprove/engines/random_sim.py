@@ -9,7 +9,6 @@ import random
 import time
 
 from .base import DISPROVED, UNKNOWN, Budget, Verdict
-from ..spec.inputs import corner_values, random_values  # noqa: F401  (re-exported)
 from .replay import LaneChecker, shrink
 
 CHUNK = 1 << 14

@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 from typing import Sequence
 
 from ..model.node import Op, mask
-from ..spec.bin2bcd import ReplayUndecided
+from ..spec.replaying import ReplayUndecided
 from .base import Counterexample
 
 # Unknown lanes cost one z3 query each; past this many in one check, stop and say so.

@@ -3,7 +3,7 @@ from __future__ import annotations
 
 import time
 
-from ..spec.bin2bcd import ReplayUndecided
+from ..spec.replaying import ReplayUndecided
 from .base import DISPROVED, PROVED, UNKNOWN, Budget, Verdict
 
 STATUSES = (PROVED, DISPROVED, UNKNOWN)

@@ -22,7 +22,7 @@ from __future__ import annotations
 
 from typing import Optional
 
-from ..engines.random_sim import corner_values
+from ..spec.inputs import corner_values
 from ..model.node import Op
 from ..spec.bin2bcd import decimal_digits
 from .testbench import TESTBENCH_MODULE, dut_lines

@@ -10,7 +10,7 @@ fails at its counterexample).
 """
 from __future__ import annotations
 
-from ..engines.random_sim import corner_values
+from ..spec.inputs import corner_values
 
 TESTBENCH_MODULE = "bcdprove_tb"
 

@@ -17,7 +17,7 @@ from ..engines.base import Counterexample
 from ..errors import BcdproveError
 from ..model.design import Model
 from ..model.node import Node, Op, evaluate, leaves, mask, substitute, topological
-from ._replay import ReplaysOnModel, ReplayUndecided  # noqa: F401 (ReplayUndecided re-exported)
+from .replaying import ReplaysOnModel
 from .ports import choose_input, choose_outputs
 
 

@@ -23,7 +23,7 @@ from typing import Mapping, Optional
 from ..engines.base import Counterexample
 from ..model.design import Model
 from ..model.node import Node, Op, evaluate, leaves, mask, topological
-from ._replay import ReplaysOnModel
+from .replaying import ReplaysOnModel
 
 
 @dataclass

@@ -10,7 +10,7 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 from bcdprove.engines.base import DISPROVED, PROVED, UNKNOWN, Budget
-from bcdprove.engines.random_sim import corner_values
+from bcdprove.spec.inputs import corner_values
 from bcdprove.engines.registry import EngineOptions, make_engine
 from bcdprove.errors import BcdproveError
 from bcdprove.spec.bin2bcd import build_problem, decimal_digits
@@ -224,9 +224,10 @@ def test_engines_agree_with_brute_force(width, threshold):
 
 def test_an_undecided_replay_stops_the_engine_with_unknown(monkeypatch):
     from bcdprove.spec import bin2bcd
+    from bcdprove.spec.replaying import ReplayUndecided
 
     def undecided(self, x, given, unchosen):
-        raise bin2bcd.ReplayUndecided(f"the solver could not settle input {x}")
+        raise ReplayUndecided(f"the solver could not settle input {x}")
 
     monkeypatch.setattr(bin2bcd.Bin2BcdProblem, "_solve_free", undecided)
     problem = _cancelling_unknown_problem()

@@ -3,7 +3,7 @@ import pytest
 
 from bcdprove.engines.base import DISPROVED, UNKNOWN, Budget, Counterexample, Verdict
 from bcdprove.engines.running import assert_sound, run_engine
-from bcdprove.spec.bin2bcd import ReplayUndecided
+from bcdprove.spec.replaying import ReplayUndecided
 
 
 class _Raising:

@@ -39,6 +39,31 @@ def test_pair_prover_refutes_with_leaf_values_that_differ():
     assert evaluate([ten, nine], {x.id: value}) == [(10 * value) % 4096, (9 * value) % 4096]
 
 
+def test_one_prover_answers_queries_in_turn_over_shared_terms():
+    # Queries without a cut point share the prover's translations: a proof, then a
+    # refutation over the same node, then a query with a cut point over that node, then the
+    # refutation again, each answered as alone (Python int arithmetic modulo 2**12).
+    g = Graph()
+    x = g.input("x", 12)
+    ten = _times_ten(g, x)
+    nine = g.mul(x, g.const(9, 12))
+    prover = PairProver()
+    assert prover.prove_equal(ten, _shift_add_ten(g, x), Budget(60)).status == PAIR_PROVED
+    outcome = prover.prove_equal(ten, nine, Budget(60))
+    assert outcome.status == REFUTED
+    value = outcome.values[x.id]
+    assert evaluate([ten, nine], {x.id: value}) == [(10 * value) % 4096, (9 * value) % 4096]
+    assert (10 * value) % 4096 != (9 * value) % 4096
+    a = g.xor(ten, g.const(5, 12))
+    b = g.not_(g.xor(g.not_(ten), g.const(5, 12)))
+    assert ten in bounded_cone([a, b], ("meet", 16))[1]
+    assert prover.prove_equal(a, b, Budget(60)).status == PAIR_PROVED
+    again = prover.prove_equal(ten, g.add(nine, g.const(1, 12)), Budget(60))
+    assert again.status == REFUTED
+    value = again.values[x.id]
+    assert (10 * value) % 4096 != (9 * value + 1) % 4096
+
+
 def test_a_cut_where_the_two_sides_meet_is_a_free_variable():
     g = Graph()
     x = g.input("x", 12)

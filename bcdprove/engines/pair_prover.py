@@ -28,6 +28,9 @@ UNDECIDED = "undecided"
 # FULL_CONE_LIMIT nodes).
 CONE_LIMITS = (("meet", 16), ("meet", 120), 600, None)
 FULL_CONE_LIMIT = 20_000
+# Queries over more nodes than this skip the shape cache: their shapes are costly to build
+# (about 2 s of a 64-bit run) and never repeat there (a cone down to the inputs is unique).
+SHAPE_LIMIT = 1000
 
 
 @dataclass
@@ -153,8 +156,8 @@ class PairProver:
             seconds = self.query_seconds if left is None else min(self.query_seconds, left)
             if seconds <= 0:
                 return Outcome(UNDECIDED, reason="the time limit was reached")
-            shape = cone_shape([a, b], expanded)
-            if shape in self._proved_shapes:
+            shape = cone_shape([a, b], expanded) if len(expanded) <= SHAPE_LIMIT else None
+            if shape is not None and shape in self._proved_shapes:
                 self.stats.shape_hits += 1
                 return Outcome(PROVED)
             encoder = self._uncut_encoder
@@ -171,7 +174,8 @@ class PairProver:
                                                 else str(limit))
             self.stats.limits[key] = self.stats.limits.get(key, 0) + 1
             if answer == z3.unsat:
-                self._proved_shapes.add(shape)
+                if shape is not None:
+                    self._proved_shapes.add(shape)
                 return Outcome(PROVED)
             if answer != z3.sat:
                 self.stats.timeouts += 1

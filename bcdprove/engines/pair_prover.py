@@ -8,6 +8,11 @@ proves the equality for the values the cut nodes really take too.  A satisfiable
 cut points may be spurious, so the limit grows (and, when the limit is off, the cone reaches
 the leaves); only a satisfiable query without cut points is a real difference, returned as
 leaf values.
+
+Answers are remembered by the query's shape (its formula up to the names of its variables,
+``cone_shape``): an unsatisfiable shape proves every later query of that shape, and a shape
+satisfiable with cut points sends a later query of that shape with cut points on to the next
+limit without asking.  A query without cut points is always asked: its model is the input.
 """
 from __future__ import annotations
 
@@ -47,6 +52,7 @@ class ProverStats:
     slowest: float = 0.0
     spurious: int = 0                             # satisfiable only thanks to a cut point
     shape_hits: int = 0                           # proved by a query of the same shape
+    spurious_shape_hits: int = 0                  # known satisfiable from a query's shape
     timeouts: int = 0
     largest_cone: int = 0
     slowest_pair: str = ""
@@ -127,6 +133,7 @@ class PairProver:
         self.full_cone_limit = full_cone_limit
         self.stats = ProverStats()
         self._proved_shapes: set[tuple] = set()
+        self._spurious_shapes: set[tuple] = set()     # satisfiable, with cut points
         # Queries without a cut point share one encoder: a node's term does not depend on the
         # query then, and translating the full cones again for every query took about a fifth
         # of a 64-bit run.  (One shared solver, each query under its own assumption literal,
@@ -160,6 +167,12 @@ class PairProver:
             if shape is not None and shape in self._proved_shapes:
                 self.stats.shape_hits += 1
                 return Outcome(PROVED)
+            if cuts and shape is not None and shape in self._spurious_shapes:
+                # The same formula up to names was satisfiable: so is this one, and with cut
+                # points that only sends the pair on to the next limit.
+                self.stats.spurious += 1
+                self.stats.spurious_shape_hits += 1
+                continue
             encoder = self._uncut_encoder
             if cuts:
                 encoder = Z3Encoder(self.ctx)
@@ -185,6 +198,8 @@ class PairProver:
                 leaves = expanded_leaves(expanded, [a, b])
                 return Outcome(REFUTED, encoder.leaf_values(model, leaves))
             self.stats.spurious += 1
+            if shape is not None:
+                self._spurious_shapes.add(shape)
         return Outcome(UNDECIDED, reason="different only where the cone was cut")
 
 

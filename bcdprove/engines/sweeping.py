@@ -324,6 +324,7 @@ class SweepingEngine:
         stats["slowest_query"] = {"seconds": round(p.slowest, 3), "pair": p.slowest_pair}
         stats["spurious_under_cuts"] = p.spurious
         stats["proved_by_shape"] = p.shape_hits
+        stats["spurious_by_shape"] = p.spurious_shape_hits
         stats["timeouts"] = p.timeouts
         stats["largest_cone"] = p.largest_cone
         stats["queries_by_cone_limit"] = dict(p.limits)

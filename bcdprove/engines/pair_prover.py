@@ -8,6 +8,11 @@ proves the equality for the values the cut nodes really take too.  A satisfiable
 cut points may be spurious, so the limit grows (and, when the limit is off, the cone reaches
 the leaves); only a satisfiable query without cut points is a real difference, returned as
 leaf values.
+
+Answers are remembered by the query's shape (its formula up to the names of its variables,
+``cone_shape``): an unsatisfiable shape proves every later query of that shape, and a shape
+satisfiable with cut points sends a later query of that shape with cut points on to the next
+limit without asking.  A query without cut points is always asked: its model is the input.
 """
 from __future__ import annotations
 
@@ -28,6 +33,9 @@ UNDECIDED = "undecided"
 # FULL_CONE_LIMIT nodes).
 CONE_LIMITS = (("meet", 16), ("meet", 120), 600, None)
 FULL_CONE_LIMIT = 20_000
+# Queries over more nodes than this skip the shape cache: their shapes are costly to build
+# (about 2 s of a 64-bit run) and never repeat there (a cone down to the inputs is unique).
+SHAPE_LIMIT = 1000
 
 
 @dataclass
@@ -44,6 +52,7 @@ class ProverStats:
     slowest: float = 0.0
     spurious: int = 0                             # satisfiable only thanks to a cut point
     shape_hits: int = 0                           # proved by a query of the same shape
+    spurious_shape_hits: int = 0                  # known satisfiable from a query's shape
     timeouts: int = 0
     largest_cone: int = 0
     slowest_pair: str = ""
@@ -124,6 +133,12 @@ class PairProver:
         self.full_cone_limit = full_cone_limit
         self.stats = ProverStats()
         self._proved_shapes: set[tuple] = set()
+        self._spurious_shapes: set[tuple] = set()     # satisfiable, with cut points
+        # Queries without a cut point share one encoder: a node's term does not depend on the
+        # query then, and translating the full cones again for every query took about a fifth
+        # of a 64-bit run.  (One shared solver, each query under its own assumption literal,
+        # was measured too: z3's incremental mode made the same queries about 8x slower.)
+        self._uncut_encoder = Z3Encoder(self.ctx)
 
     def prove_equal(self, a: Node, b: Node, budget: Budget, label: str = "",
                     limits=None) -> Outcome:
@@ -148,13 +163,21 @@ class PairProver:
             seconds = self.query_seconds if left is None else min(self.query_seconds, left)
             if seconds <= 0:
                 return Outcome(UNDECIDED, reason="the time limit was reached")
-            shape = cone_shape([a, b], expanded)
-            if shape in self._proved_shapes:
+            shape = cone_shape([a, b], expanded) if len(expanded) <= SHAPE_LIMIT else None
+            if shape is not None and shape in self._proved_shapes:
                 self.stats.shape_hits += 1
                 return Outcome(PROVED)
-            encoder = Z3Encoder(self.ctx)
-            for cut in cuts:
-                encoder.cut(cut)
+            if cuts and shape is not None and shape in self._spurious_shapes:
+                # The same formula up to names was satisfiable: so is this one, and with cut
+                # points that only sends the pair on to the next limit.
+                self.stats.spurious += 1
+                self.stats.spurious_shape_hits += 1
+                continue
+            encoder = self._uncut_encoder
+            if cuts:
+                encoder = Z3Encoder(self.ctx)
+                for cut in cuts:
+                    encoder.cut(cut)
             solver = z3.Solver(ctx=self.ctx)
             started = time.monotonic()
             answer = check_within(solver, seconds, [encoder.term(a) != encoder.term(b)])
@@ -164,7 +187,8 @@ class PairProver:
                                                 else str(limit))
             self.stats.limits[key] = self.stats.limits.get(key, 0) + 1
             if answer == z3.unsat:
-                self._proved_shapes.add(shape)
+                if shape is not None:
+                    self._proved_shapes.add(shape)
                 return Outcome(PROVED)
             if answer != z3.sat:
                 self.stats.timeouts += 1
@@ -174,6 +198,8 @@ class PairProver:
                 leaves = expanded_leaves(expanded, [a, b])
                 return Outcome(REFUTED, encoder.leaf_values(model, leaves))
             self.stats.spurious += 1
+            if shape is not None:
+                self._spurious_shapes.add(shape)
         return Outcome(UNDECIDED, reason="different only where the cone was cut")
 
 

@@ -9,7 +9,7 @@ holds both designs' output cones over shared inputs.
    values on all lanes, taken up to complement (a node and its bitwise complement share a
    signature with opposite phase).  Nodes with equal signatures and equal phase are proposed
    as equal when one serves design A and the other design B; a node whose signature is
-   constant is proposed equal to that constant (with a local query only).
+   constant is proposed equal to that constant first.
 3. Nodes are visited in topological order and rebuilt, in bit form (``model.bit_form``), over
    the nodes already merged; the graph's hash-consing then merges structurally equal nodes
    without any query.  A proposed pair that is still different is given to the
@@ -45,9 +45,15 @@ SIGNATURE_LANES = 1024
 # the other's, and every later pair then needs a query down to the inputs.  Measured on the
 # 32-bit loop against the digit-array converter: 22 s with them, 6 s without (wall clock).
 COMPLEMENTS = False
-# A constant that only a query to the inputs shows (a digit that is zero because of the
-# input's range) costs as much as the whole problem: constants get a local query or none.
-LOCAL_LIMITS = (("meet", 16),)
+# A node constant on every lane gets the same escalation as a pair, down to the inputs: most
+# are bits that are zero only because of the input's range (the digits above the highest one
+# 2^s - 1 has at stage s, an add-3 that can never fire there), and once merged into the
+# constant they fold the cells above them, so the designs then meet by hash-consing.  The
+# cells repeat, so most of these are proved by the shape of an earlier query.  Measured at 64
+# bits, loop against add-3 triangle: with a local query only (meet 16), 276 z3 queries and
+# 9.4 s CPU (the range facts were paid for again in each later pair's query to the inputs);
+# with the escalation, 25 queries and 2.5 s.
+LOCAL_LIMITS = None
 
 
 @dataclass
@@ -112,7 +118,9 @@ class Sweeper:
         self.stats = SweepStats(candidates=len(self.candidates))
         self.classes = _Classes()
         self.bits: dict[int, list[Node]] = {}      # original node id -> its bits, rebuilt
-        self.rebuilt: dict[int, Node] = {}         # original node id -> its word, rebuilt
+        # Original node id -> its word, rebuilt: made only when a query or an output needs
+        # it (concatenating every wide word's bits was most of a 128-bit run).
+        self.rebuilt: dict[int, Node] = {}
         self.form = BitForm(self.graph)
         self.found = None               # a replayed difference met while refining
         self._signatures(hunt, seed_vectors)
@@ -127,47 +135,56 @@ class Sweeper:
         for node, result in zip(self.candidates, simulator.run(lanes, planes)):
             self.classes.add(node, result.value, lanes)
 
-    def _rebuild(self, node: Node) -> Node:
+    def _rebuild(self, node: Node) -> list[Node]:
         """Rebuild ``node`` over the merged forms of its arguments (in bit form, see
-        ``model.bit_form``); returns the word and records both."""
+        ``model.bit_form``); records and returns the bits."""
         if node.op in Op.LEAVES:
             bits = self.form.leaf(node)
         else:
             bits = self.form.apply(node, [self.bits[a.id] for a in node.args])
         return self._set(node, bits)
 
-    def _set(self, node: Node, bits: list[Node]) -> Node:
+    def _set(self, node: Node, bits: list[Node]) -> list[Node]:
         self.bits[node.id] = bits
-        word = self.form.word(bits)
-        self.rebuilt[node.id] = word
+        self.rebuilt.pop(node.id, None)
+        return bits
+
+    def _word(self, node: Node) -> Node:
+        """The word of ``node``'s current bits."""
+        word = self.rebuilt.get(node.id)
+        if word is None:
+            word = self.rebuilt[node.id] = self.form.word(self.bits[node.id])
         return word
 
     def run(self, budget: Budget) -> None:
         """Visit every node in topological order, merging what can be proved equal."""
         representatives: dict[tuple, Node] = {}    # signature -> first original node of it
         kept: list[Node] = []            # visited original nodes that stayed their own class
-        members: dict[tuple, set[int]] = {}        # signature -> ids of its members' words
+        # Signature -> its members' bits (as id tuples: one word has one tuple of bits).
+        members: dict[tuple, set[tuple]] = {}
         for node in self.order:
             current = self._rebuild(node)
             if node.op in Op.LEAVES:
                 continue
             self.stats.visited += 1
-            if current.op == Op.CONST or budget.expired() or self.found is not None:
+            if (all(b.op == Op.CONST for b in current) or budget.expired()
+                    or self.found is not None):
                 continue
+            current_ids = tuple(b.id for b in current)
             constant = self.classes.constant[node.id]
             if constant is not None:
                 target = self.graph.const(constant, node.width)
-                if self._try(node, current, self.form.leaf(target), budget, limits=LOCAL_LIMITS):
+                if self._try(node, self.form.leaf(target), budget, limits=LOCAL_LIMITS):
                     self.stats.constants += 1
                     continue
             key = self.classes.keys[node.id]
             words = members.setdefault(key, set())
-            if current.id in words:
+            if current_ids in words:
                 # Already the very node of an earlier member (hash-consing met it): merging it
                 # into the class representative instead would pull it away from that member.
                 self.stats.structural += 1
                 continue
-            words.add(current.id)
+            words.add(current_ids)
             rep = representatives.get(key)
             if rep is None:
                 representatives[key] = node
@@ -185,11 +202,11 @@ class Sweeper:
                     self.stats.complement_skipped += 1
                     continue
                 bits = [self.graph.not_(b) for b in bits]
-            if self.form.word(bits) is current:
+            if tuple(b.id for b in bits) == current_ids:
                 self.stats.structural += 1
                 continue
-            if self._try(node, current, bits, budget):
-                words.add(self.rebuilt[node.id].id)
+            if self._try(node, bits, budget):
+                words.add(tuple(b.id for b in bits))
                 continue
             kept.append(node)
             if self.classes.keys[node.id] != key:          # refined: rebuild the classes
@@ -197,11 +214,11 @@ class Sweeper:
                 for old in kept:
                     representatives.setdefault(self.classes.keys[old.id], old)
 
-    def _try(self, node: Node, current: Node, bits: list[Node], budget: Budget,
-             limits=None) -> bool:
-        """Prove ``current`` equal to the word of ``bits``; on success ``node`` takes ``bits``."""
+    def _try(self, node: Node, bits: list[Node], budget: Budget, limits=None) -> bool:
+        """Prove ``node``'s current word equal to the word of ``bits``; on success ``node``
+        takes ``bits``."""
         self.stats.proposed += 1
-        outcome = self.prover.prove_equal(current, self.form.word(bits), budget,
+        outcome = self.prover.prove_equal(self._word(node), self.form.word(bits), budget,
                                           label=f"n{node.id}", limits=limits)
         if outcome.status == PAIR_PROVED:
             self.stats.proved += 1
@@ -225,7 +242,7 @@ class Sweeper:
         self.found = self.problem.replay(full)
 
     def reduced_outputs(self) -> list[tuple[Node, Node]]:
-        return [(self.rebuilt[o.node_a.id], self.rebuilt[o.node_b.id])
+        return [(self._word(o.node_a), self._word(o.node_b))
                 for o in self.problem.outputs]
 
 
@@ -324,6 +341,7 @@ class SweepingEngine:
         stats["slowest_query"] = {"seconds": round(p.slowest, 3), "pair": p.slowest_pair}
         stats["spurious_under_cuts"] = p.spurious
         stats["proved_by_shape"] = p.shape_hits
+        stats["spurious_by_shape"] = p.spurious_shape_hits
         stats["timeouts"] = p.timeouts
         stats["largest_cone"] = p.largest_cone
         stats["queries_by_cone_limit"] = dict(p.limits)

@@ -188,3 +188,17 @@ def test_64_bit_double_dabble_variants_are_equivalent(other):
                   {"W": 64}, {"W": 64})
     assert result.verdict.status == PROVED, result.verdict.reason
     assert result.verdict.stats["sweep"]["proved"] > 0
+
+
+def test_range_constants_are_proved_so_the_sweep_leaves_no_pair_open():
+    # The loop keeps an add-3 cell on digits that cannot reach 5 yet (above the highest digit
+    # of 2^s - 1 at stage s); the triangle has none there.  Those cells' conditions are zero
+    # only because of the input's range: proved down to the inputs, every pair the sweep
+    # proposes is proved (with a local query only, 7 of 31 stayed open at 16 bits).  The pair
+    # is equal: both are correct converters (Python's str(int), see the module docstring).
+    result = _run("wide/meter_wide_loop.v", "meter_wide_loop", "wide/meter_wide_add3_triangle.v",
+                  "meter_wide_add3_triangle", {"W": 16}, {"W": 16})
+    assert result.verdict.status == PROVED, result.verdict.reason
+    sweep = result.verdict.stats["sweep"]
+    assert sweep["constants"] >= 1 and sweep["undecided"] == 0
+    assert sweep["proved"] == sweep["proposed"]

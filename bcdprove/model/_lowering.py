@@ -93,11 +93,13 @@ def select(net: BitNetlist, condition: int, then: Bits, other: Bits) -> Bits:
     update what the update changes, not the register's width in Python steps.
     """
     width = len(then)
+    mux = net.mux
+    if width <= 32:                 # bisection does not pay for itself on narrow words
+        return [t if t == e else mux(condition, t, e) for t, e in zip(then, other)]
     low = _agreeing(then, other, range(width))
     if low == width:
         return list(other)
     high = width - _agreeing(then, other, range(width - 1, low - 1, -1))
-    mux = net.mux
     middle = [t if t == e else mux(condition, t, e)
               for t, e in zip(then[low:high], other[low:high])]
     return other[:low] + middle + other[high:]

@@ -72,7 +72,8 @@ class Mining:
     def bit_fact(self, node: Node, bit: int) -> Fact:
         """What bit ``bit`` of ``node`` looked like on every lane: a constant, an input bit, or None."""
         planes = self.planes.get(node.id)
-        if planes is None or self.unknown.get(node.id, [0] * node.width)[bit]:
+        blind = self.unknown.get(node.id)          # (no default list: nodes are W + 4D wide)
+        if planes is None or (blind is not None and blind[bit]):
             return None
         plane = planes[bit]
         if plane == 0:

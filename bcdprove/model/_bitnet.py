@@ -174,6 +174,22 @@ class BitNetlist:
         for signal in self._needed(outputs):
             kind, a = self.kinds[signal], self.first[signal]
             b, c = self.second[signal], self.third[signal]
+            if kind >= _NOT and unknown[a] == FALSE and (
+                    kind == _NOT or (unknown[b] == FALSE and (kind != _MUX or unknown[c] == FALSE))):
+                # Every input known: the gate itself, known (what the rules below reduce to).
+                if kind == _NOT:
+                    v = net.not_(value[a])
+                elif kind == _AND:
+                    v = net.and_(value[a], value[b])
+                elif kind == _OR:
+                    v = net.or_(value[a], value[b])
+                elif kind == _XOR:
+                    v = net.xor(value[a], value[b])
+                else:
+                    v = net.mux(value[a], value[b], value[c])
+                value[signal] = v
+                unknown[signal] = FALSE
+                continue
             if kind == _LOAD:
                 mode = leaf_modes[a]
                 if mode == "known":

@@ -79,9 +79,55 @@ def _lower_operator(net: BitNetlist, node: Node, args: list[Bits]) -> Bits:
     if op == Op.SEXT:
         return args[0] + [args[0][-1]] * (width - len(args[0]))
     if op == Op.ITE:
-        condition = args[0][0]
-        return [net.mux(condition, t, e) for t, e in zip(args[1], args[2])]
+        return select(net, args[0][0], args[1], args[2])
     raise ValueError(f"operator {op!r} cannot be simulated")
+
+
+def select(net: BitNetlist, condition: int, then: Bits, other: Bits) -> Bits:
+    """Bitwise ``condition ? then : other``.
+
+    A part of a wide register written under a condition (``if (..) work[4*j +: 4] = ..``)
+    is an ITE of the whole register whose sides differ in a few bits only.  The equal
+    prefix and suffix are found by bisection on list slices (compared in C) and copied;
+    only the bits between them get a multiplexer, so lowering such a chain costs per
+    update what the update changes, not the register's width in Python steps.
+    """
+    width = len(then)
+    mux = net.mux
+    if width <= 32:                 # bisection does not pay for itself on narrow words
+        return [t if t == e else mux(condition, t, e) for t, e in zip(then, other)]
+    low = _agreeing(then, other, range(width))
+    if low == width:
+        return list(other)
+    high = width - _agreeing(then, other, range(width - 1, low - 1, -1))
+    middle = [t if t == e else mux(condition, t, e)
+              for t, e in zip(then[low:high], other[low:high])]
+    return other[:low] + middle + other[high:]
+
+
+def _agreeing(a: Bits, b: Bits, positions: range) -> int:
+    """How many of ``positions`` (walked in order) ``a`` and ``b`` agree on before the
+    first difference, by bisection over slices."""
+    def same(start: int, stop: int) -> bool:      # positions[start:stop] agree
+        window = positions[start:stop]
+        if not window:
+            return True
+        first, last = window[0], window[-1]
+        if first <= last:
+            return a[first:last + 1] == b[first:last + 1]
+        return a[last:first + 1] == b[last:first + 1]
+
+    count = len(positions)
+    if same(0, count):
+        return count
+    good, bad = 0, count          # positions[:good] agree; positions[:bad] do not
+    while bad - good > 1:
+        middle = (good + bad) // 2
+        if same(good, middle):
+            good = middle
+        else:
+            bad = middle
+    return good
 
 
 def add(net: BitNetlist, a: Bits, b: Bits, carry: int = FALSE) -> tuple[Bits, int]:

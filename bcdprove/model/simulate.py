@@ -114,8 +114,16 @@ class Simulator:
             self._net = BitNetlist()
             bits = lower(self._net, order, self._leaf_index)
             self._outputs = [b for root in self.roots for b in bits[root.id]]
-            self._program = self._net.compile(self._outputs, "two_valued")
+        # Scheduled on first use: a cone with unknown values may only ever run ternary.
+        self._two_valued: Program | None = None
         self._ternary: dict[tuple, Program] = {}
+
+    @property
+    def _program(self) -> Program:
+        if self._two_valued is None:
+            with _collector_paused():
+                self._two_valued = self._net.compile(self._outputs, "two_valued")
+        return self._two_valued
 
     @property
     def gate_count(self) -> int:

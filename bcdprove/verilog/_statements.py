@@ -231,7 +231,12 @@ class Frame:
         for name in ("env", "nba"):
             a_env, b_env = getattr(then, name), getattr(other, name)
             out = getattr(merged, name)
-            for var in set(a_env) | set(b_env):
+            # Both branches start from copies of one state: a variable neither branch
+            # changed holds the same node in both (ite(c, a, a) is a), and only the others
+            # need a merge.  Going through every variable made each `if` cost the whole
+            # state (a digit array: digits**2 per stage).
+            out.update(a_env)
+            for var in {var for var, _ in a_env.items() ^ b_env.items()}:
                 a = a_env.get(var)
                 b = b_env.get(var)
                 if a is None:
@@ -346,9 +351,10 @@ class Frame:
                                         "iterations", stmt)
             label = self._loop_label(loop_var, count)
             self.loops.append((loop_var, label))
+            before = dict(self.state.env) if self.probe_prefix is not None else None
             try:
                 self.run(body)
-                self._record_probes()
+                self._record_probes(before)
             finally:
                 self.loops.pop()
             self.run(post)
@@ -375,12 +381,19 @@ class Frame:
         number = to_signed(value.value, value.width) if var.signed else value.value
         return f"{short}={number}"
 
-    def _record_probes(self) -> None:
+    def _record_probes(self, before: Optional[dict]) -> None:
+        """Probe the variables this iteration changed (``before``: the values at its start).
+
+        An unchanged variable's value already has a name (an earlier probe's, or none when
+        it is the value from before the loop); probing every variable in every iteration
+        made nested loops over a digit array record (digits)**2 probes per stage."""
         if self.probe_prefix is None:
             return
         suffix = "@" + ",".join(label for _, label in self.loops)
         loop_vars = {var for var, _ in self.loops}
-        for var, node in self.state.env.items():
+        # Item sets compare nodes by identity; unchanged variables hold the very same node.
+        changed = sorted(self.state.env.items() - before.items(), key=lambda item: item[0].name)
+        for var, node in changed:
             if var in loop_vars:
                 continue
             self.design.add_probe(f"{self.name_prefix}{var.name}{suffix}", node, var)

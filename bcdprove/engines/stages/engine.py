@@ -164,6 +164,7 @@ class _Run:
         self.zeros: set[int] = set()               # nodes proved to be zero for every input
         self._zero_tried: dict[int, int] = {}      # node id -> stage of a failed zero proof
         self._references: dict[tuple[int, int], list[Node]] = {}
+        self._learned: dict[int, list[Node]] = {}  # stage -> exclusions (see _check_refined)
 
     # the chain ---------------------------------------------------------------------------------
     def execute(self) -> Verdict:
@@ -471,7 +472,13 @@ class _Run:
         cone = self.cone
         bits = cone.concat(*[input_bit_leaf(cone, self.width, cut.stage, self.width - 1 - k)
                              for k in range(cut.stage)])
+        # The exclusions learned for other obligations at this stage hold in every reachable
+        # state too: start from them (the digits of one output each needed the same ten or
+        # so, one solver call apiece).
+        learned = self._learned.setdefault(cut.stage, [])
         query = bad
+        for fact in learned:
+            query = cone.and_(query, fact)
         for _ in range(_REFINEMENTS):
             outcome = self.solver.check(query, where, timeout)
             if outcome.status != outcomes.FAILED:
@@ -487,6 +494,7 @@ class _Run:
             for j in range(cut.digits):
                 same = cone.and_(same, cone.eq(digit_leaf(cone, j), cone.const(wanted[j], 4)))
             fact = cone.or_(cone.ne(bits, cone.const(prefix, cut.stage)), same)
+            learned.append(fact)
             query = cone.and_(query, fact)
         return Outcome(outcomes.UNDECIDED, reason=f"{_REFINEMENTS} refinements of the stage "
                                                   f"value did not settle it")

@@ -72,7 +72,8 @@ class Mining:
     def bit_fact(self, node: Node, bit: int) -> Fact:
         """What bit ``bit`` of ``node`` looked like on every lane: a constant, an input bit, or None."""
         planes = self.planes.get(node.id)
-        if planes is None or self.unknown.get(node.id, [0] * node.width)[bit]:
+        blind = self.unknown.get(node.id)          # (no default list: nodes are W + 4D wide)
+        if planes is None or (blind is not None and blind[bit]):
             return None
         plane = planes[bit]
         if plane == 0:
@@ -149,25 +150,38 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
     cone = topological(problem.digits)
     unnamed = [n for n in cone if n.width in _NARROW and n.op not in Op.LEAVES
                and n.op != Op.CONST and n.id not in named_ids]
-    roots = [node for _, node in named] + unnamed + list(problem.digits)
+    # Wide probes from inside inner loops (a whole register after each digit's update: W x D
+    # of them, each W + 4D bits) are only simulated when the others leave a digit without a
+    # candidate; their planes alone grew with the cube of the width.
+    late = [node for name, node in named if nesting(name) > 0 and node.width > _NARROW[-1]]
+    late_ids = {node.id for node in late}
+    early = [node for _, node in named if node.id not in late_ids]
+    roots = early + unnamed + list(problem.digits)
     simulator = Simulator(roots)
     noise = random.Random(lanes_seed + 1)
-    given = {}
-    for leaf in simulator.leaves:
-        if leaf is problem.x:
-            given[leaf.id] = pack(values, width)
-        elif leaf.op == Op.FREE:
-            # Unknown values at random (a two-valued run is the fast one): a node that
-            # depends on them then rarely looks constant.
-            given[leaf.id] = [noise.getrandbits(lanes) for _ in range(leaf.width)]
-        else:
-            given[leaf.id] = [0] * leaf.width      # other inputs: a proposal needs one choice
-    results = simulator.run(lanes, given)
-    planes = {}
-    unknown = {}
-    for node, result in zip(roots, results):
-        planes[node.id] = result.value
-        unknown[node.id] = result.unknown
+    given: dict[int, list[int]] = {}
+    planes: dict[int, list[int]] = {}
+    unknown: dict[int, list[int]] = {}
+
+    def run(simulator: Simulator, roots: list[Node]) -> list:
+        for leaf in simulator.leaves:
+            if leaf.id in given:
+                continue
+            if leaf is problem.x:
+                given[leaf.id] = pack(values, width)
+            elif leaf.op == Op.FREE:
+                # Unknown values at random (a two-valued run is the fast one): a node that
+                # depends on them then rarely looks constant.
+                given[leaf.id] = [noise.getrandbits(lanes) for _ in range(leaf.width)]
+            else:
+                given[leaf.id] = [0] * leaf.width      # other inputs: a proposal needs one choice
+        results = simulator.run(lanes, {leaf.id: given[leaf.id] for leaf in simulator.leaves})
+        for node, result in zip(roots, results):
+            planes[node.id] = result.value
+            unknown[node.id] = result.unknown
+        return results
+
+    results = run(simulator, roots)
     x_planes = pack(values, width)
     reference = reference_planes(x_planes, width, lanes)
 
@@ -214,6 +228,8 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
     for node in unnamed:
         offer(node, f"n{node.id}", 1)
     if unmatched():
+        if late:
+            run(Simulator(late), late)
         for name, node in inner:
             offer(node, name, 0)
     if unmatched():

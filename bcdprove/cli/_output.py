@@ -36,3 +36,15 @@ def deliver(files: Sequence[ReportFile], *, as_json: bool, json_text: Callable[[
         typer.echo(report())
         for line in written:
             typer.echo(line)
+
+
+def verdict_line(verdict, subject: str, seconds: float, inputs: dict | None = None,
+                 extra: str = "") -> str:
+    """The one line of ``--quiet``: verdict, what was checked, engine and time, then the
+    failing input (and ``extra``) when there is one, else the reason when there is one."""
+    line = f"{verdict.status}: {subject} ({verdict.engine}, {seconds:.2f} s)"
+    if inputs is not None:
+        line += "; counterexample " + ", ".join(f"{k}={v}" for k, v in inputs.items()) + extra
+    elif verdict.reason:
+        line += f"; {verdict.reason}"
+    return line

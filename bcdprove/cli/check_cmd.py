@@ -32,14 +32,11 @@ def _names(items: Optional[List[str]]) -> Optional[List[str]]:
 
 def _verdict_line(result) -> str:
     """One line for --quiet: verdict, top, and the failing input when there is one."""
-    verdict = result.verdict
-    line = f"{verdict.status}: {result.model.top} ({verdict.engine}, {result.seconds:.2f} s)"
-    if verdict.counterexample is not None:
-        inputs = ", ".join(f"{k}={v}" for k, v in verdict.counterexample.inputs.items())
-        line += f"; counterexample {inputs}"
-    elif verdict.reason:
-        line += f"; {verdict.reason}"
-    return line
+    from ._output import verdict_line
+
+    found = result.verdict.counterexample
+    return verdict_line(result.verdict, result.model.top, result.seconds,
+                        None if found is None else found.inputs)
 
 
 def check_command(

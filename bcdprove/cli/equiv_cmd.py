@@ -38,16 +38,13 @@ def _mapping(items: Optional[List[str]]) -> dict[str, str]:
 
 
 def _verdict_line(result) -> str:
-    verdict = result.verdict
-    line = (f"{verdict.status}: {result.model_a.top} against {result.model_b.top} "
-            f"({verdict.engine}, {result.seconds:.2f} s)")
-    found = verdict.counterexample
-    if found is not None:
-        inputs = ", ".join(f"{k}={v}" for k, v in found.inputs.items())
-        line += f"; counterexample {inputs}; differing {', '.join(found.differing)}"
-    elif verdict.reason:
-        line += f"; {verdict.reason}"
-    return line
+    """One line for --quiet: verdict, both tops, the differing input and outputs if any."""
+    from ._output import verdict_line
+
+    found = result.verdict.counterexample
+    return verdict_line(result.verdict, f"{result.model_a.top} against {result.model_b.top}",
+                        result.seconds, None if found is None else found.inputs,
+                        "" if found is None else f"; differing {', '.join(found.differing)}")
 
 
 def equiv_command(

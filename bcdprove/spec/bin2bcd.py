@@ -16,7 +16,7 @@ from typing import Mapping
 from ..engines.base import Counterexample
 from ..errors import BcdproveError
 from ..model.design import Model
-from ..model.node import Node, Op, evaluate, leaves, mask, substitute, topological
+from ..model.node import Node, evaluate, mask, substitute, topological
 from .replaying import ReplaysOnModel
 from .ports import choose_input, choose_outputs
 
@@ -85,16 +85,6 @@ class Bin2BcdProblem(ReplaysOnModel):
     def below_capacity(self) -> "Bin2BcdProblem":
         """The same problem restricted to inputs below 10**D (the check of the digits present)."""
         return replace(self, max_input=min(self.top_value, self.capacity() - 1))
-
-    def free_leaves(self) -> list[Node]:
-        """Leaves besides ``x`` that the digits depend on: untied inputs and unknown values."""
-        if self._free is None:
-            self._free = [n for n in leaves(self.digits) if n is not self.x]
-        return list(self._free)
-
-    def port_of(self, leaf: Node) -> str | None:
-        """The input port an INPUT leaf stands for (None for unknown values)."""
-        return leaf.params[0] if leaf.op == Op.INPUT else None
 
     def check_width(self) -> int:
         """Bits enough for both ``x`` and any D-digit value, plus one so nothing wraps."""

@@ -22,7 +22,7 @@ from typing import Mapping, Optional
 
 from ..engines.base import Counterexample
 from ..model.design import Model
-from ..model.node import Node, Op, evaluate, leaves, mask, topological
+from ..model.node import Node, evaluate, mask, topological
 from .replaying import ReplaysOnModel
 
 
@@ -70,15 +70,6 @@ class CheckedOutputsProblem(ReplaysOnModel):
         return {self.input_ports[0]: x}
 
     # shared --------------------------------------------------------------------------
-    def free_leaves(self) -> list[Node]:
-        """Leaves besides ``x`` the checked outputs depend on: untied inputs, unknown values."""
-        if self._free is None:
-            self._free = [n for n in leaves(self.checked) if n is not self.x]
-        return list(self._free)
-
-    def port_of(self, leaf: Node) -> str | None:
-        return leaf.params[0] if leaf.op == Op.INPUT else None
-
     def input_value(self, found: Counterexample) -> int:
         """The value of ``x`` a counterexample of this problem was found at."""
         fields = self.input_fields(0)

@@ -1,7 +1,7 @@
 """The replay every specification shares: confirm a counterexample on the model itself.
 
-A problem mixes in :class:`ReplaysOnModel` and supplies ``x``, ``width``, ``free_leaves()``,
-``_replayed_nodes()`` (the output nodes a replay reads), ``_compare(x, values)`` (a replayed
+A problem mixes in :class:`ReplaysOnModel` and supplies ``x``, ``width``, the caches ``_free``,
+``_simulator`` and ``_encoder`` (None at first), ``_replayed_nodes()`` (the output nodes a replay reads), ``_compare(x, values)`` (a replayed
 Counterexample when the outputs are wrong with every leaf given, else None) and
 ``_wrong_terms(encoder, x)`` (z3 terms, one of which holds when an output is wrong at ``x``).
 """
@@ -10,7 +10,7 @@ from __future__ import annotations
 from typing import Mapping
 
 from ..engines.base import Counterexample
-from ..model.node import Node, Op, mask
+from ..model.node import Node, Op, leaves, mask
 
 
 class ReplayUndecided(Exception):
@@ -23,6 +23,16 @@ REPLAY_SOLVER_SECONDS = 60
 
 class ReplaysOnModel:
     """``replay`` and the three-valued and z3 helpers behind it (see the module docstring)."""
+
+    def free_leaves(self) -> list[Node]:
+        """Leaves besides ``x`` the replayed outputs depend on: untied inputs, unknown values."""
+        if self._free is None:
+            self._free = [n for n in leaves(self._replayed_nodes()) if n is not self.x]
+        return list(self._free)
+
+    def port_of(self, leaf: Node) -> str | None:
+        """The input port an INPUT leaf stands for (None for unknown values)."""
+        return leaf.params[0] if leaf.op == Op.INPUT else None
 
     def replay(self, x: int, free_values: Mapping[int, int] | None = None) -> Counterexample | None:
         """Simulate the model at ``x``; a replayed Counterexample when an output is wrong, else None.

@@ -77,7 +77,7 @@ def equiv_models(model_a: Model, model_b: Model, *, mapping: Mapping[str, str] |
                  clock: Optional[str] = None, reset: Optional[str] = None,
                  reset_low: Optional[bool] = None, start: Optional[str] = None,
                  done: Optional[str] = None, hold_input: bool = False,
-                 started: float | None = None) -> EquivalenceResult:
+                 max_cycles: Optional[int] = None, started: float | None = None) -> EquivalenceResult:
     """Decide whether ``model_a`` and ``model_b`` compute the same outputs.
 
     ``mapping`` pairs ports of A (keys) with ports of B (values); the others pair by name.
@@ -87,10 +87,10 @@ def equiv_models(model_a: Model, model_b: Model, *, mapping: Mapping[str, str] |
     what was proved.  ``vectors``: random vectors of the hunt; ``query_seconds``: the limit of
     one solver query.
 
-    Clocked designs: pipelines only, ``latency`` cycles (with ``clock``/``reset``/``reset_low``
-    as for ``check``); see ``spec/clocked_equivalence.py`` for the reading.  Handshake options
-    (``start``, ``done``, ``hold_input``) raise BcdproveError (not supported yet), as do
-    protocol options for two combinational designs.
+    Clocked designs: pipelines (``latency`` cycles) or, without ``latency``, handshake pairs
+    (``start``, ``done``, ``max_cycles``, ``hold_input``), with ``clock``/``reset``/
+    ``reset_low`` as for ``check``; see ``spec/clocked_equivalence.py`` for the reading.
+    Protocol options for two combinational designs raise BcdproveError.
     """
     from .engines.sweeping import make_equivalence_engine
 
@@ -102,11 +102,13 @@ def equiv_models(model_a: Model, model_b: Model, *, mapping: Mapping[str, str] |
 
         problem = build_clocked_equivalence(model_a, model_b, latency=latency, mapping=mapping,
                                             clock=clock, reset=reset, reset_low=reset_low,
-                                            start=start, done=done, hold_input=hold_input)
+                                            start=start, done=done, hold_input=hold_input,
+                                            max_cycles=max_cycles)
     else:
         given = [name for name, value in (("--latency", latency), ("--clock", clock),
                                           ("--reset", reset), ("--start", start),
                                           ("--done", done), ("--hold-input", hold_input or None),
+                                          ("--max-cycles", max_cycles),
                                           ("--reset-low/--reset-high", reset_low))
                  if value is not None]
         if given:

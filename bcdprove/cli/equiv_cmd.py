@@ -1,6 +1,7 @@
 """``bcdprove equiv``: show that two designs compute the same outputs, or the input where not.
 
-Clocked pairs: pipelines (``--latency``) only, see ``spec/clocked_equivalence.py``.
+Clocked pairs: pipelines (``--latency``) or handshakes (``--start``/``--done``/``--max-cycles``),
+see ``spec/clocked_equivalence.py``.
 
 Exit codes as for ``check``: 0 equivalent (proved), 1 different (disproved), 2 usage or input
 error, 3 unknown.
@@ -86,6 +87,7 @@ def equiv_command(
     done: Optional[str] = clocked.DONE,
     latency: Optional[int] = clocked.LATENCY,
     hold_input: bool = clocked.HOLD_INPUT,
+    max_cycles: Optional[int] = clocked.MAX_CYCLES,
     debug: bool = opt.DEBUG,
 ) -> None:
     if timeout is not None and timeout <= 0:
@@ -117,7 +119,8 @@ def equiv_command(
     result = equiv_models(model_a, model_b, mapping=_mapping(map_ports), engine=engine,
                           timeout=timeout, vectors=vectors, seed=seed, latency=latency,
                           clock=clock, reset=reset, reset_low=reset_low, start=start, done=done,
-                          hold_input=hold_input, started=started)
+                          hold_input=hold_input, max_cycles=max_cycles,
+                          started=started)
     result.overrides_a, result.overrides_b = overrides_a, overrides_b
     from ..reports.equiv_testbench import write_equiv_testbench
     from ..reports.equiv_text import equiv_report

@@ -150,12 +150,97 @@ def test_a_skewed_pipeline_differs_and_icarus_agrees():
     assert int(out_a, 16) == reference_bcd(values[0])
 
 
-def test_handshake_pairs_are_refused_for_now():
+SERIAL = ("clocked/meter_serial_bcd.v", "meter_serial_bcd")
+SERIAL_SIZES = {"W": 12, "D": 4}
+
+
+def test_a_handshake_converter_is_equivalent_to_itself():
+    # designs/catalog.json: meter_serial_bcd, a proved handshake converter (done 12 edges
+    # after start); the same design on both sides must agree for every input and power-up.
+    result = _run(*SERIAL, *SERIAL, SERIAL_SIZES, SERIAL_SIZES)
+    assert result.verdict.status == PROVED, result.verdict.reason
+    assert result.exit_code == 0
+
+
+def _serial_bench(top_b: str, values: list[int]) -> list[tuple[int, int, int, int, int]]:
+    """Both converters clocked in Icarus with the counterexample's inputs (reset in cycle 0,
+    start in cycle 1, ``reading`` per cycle); per cycle (t, done_a, done_b, bcd_a, bcd_b),
+    sampled before the edge that ends the cycle (the timing contract of model/unroll.py)."""
+    lines = []
+    for t, value in enumerate(values):
+        lines.append(f"    rst = {int(t == 0)}; start = {int(t == 1)}; reading = 12'd{value}; "
+                     f"#1 $display(\"%0d %b %b %h %h\", {t}, da, db, ya, yb); "
+                     f"#4 clk = 1; #5 clk = 0;")
+    bench = "\n".join([
+        "module serial_bench;",
+        "  reg clk = 0, rst = 0, start = 0; reg [11:0] reading = 0;",
+        "  wire da, db; wire [15:0] ya, yb;",
+        f"  {SERIAL[1]} #(.W(12), .D(4)) a (.clk(clk), .rst(rst), .start(start), "
+        f".reading(reading), .done(da), .bcd(ya));",
+        f"  {top_b} #(.W(12), .D(4)) b (.clk(clk), .rst(rst), .start(start), "
+        f".reading(reading), .done(db), .bcd(yb));",
+        "  initial begin", *lines, "    $finish;", "  end", "endmodule", ""])
+    text = run_icarus([DESIGNS / SERIAL[0], DESIGNS / f"clocked/{top_b}.v"], "serial_bench",
+                      bench)
+    rows = []
+    for line in text.strip().splitlines():
+        t, da, db, ya, yb = line.split()
+        rows.append((int(t), int(da, 2) if da in "01" else -1, int(db, 2) if db in "01" else -1,
+                     int(ya, 16) if "x" not in ya else -1, int(yb, 16) if "x" not in yb else -1))
+    return rows
+
+
+@pytest.mark.parametrize("twin", ["meter_serial_done_early_bug", "meter_serial_count_bug"])
+def test_a_handshake_twin_differs_and_icarus_agrees(twin):
+    # designs/catalog.json: both twins fail first at input 1 (Icarus-checked there).
+    result = _run(*SERIAL, f"clocked/{twin}.v", twin, SERIAL_SIZES, SERIAL_SIZES)
+    assert result.verdict.status == DISPROVED
+    found = result.verdict.counterexample
+    assert found.replayed and not found.uses_unknowns
+    cycles = max(int(name.split("@")[1]) for name in found.inputs) + 1
+    values = [found.inputs[f"reading@{t}"] for t in range(cycles)]
+    rows = _serial_bench(twin, values)
+    done_a = next(t for t, da, _, _, _ in rows if t >= 2 and da == 1)
+    done_b = next(t for t, _, db, _, _ in rows if t >= 2 and db == 1)
+    read_a, read_b = rows[done_a][3], rows[done_b][4]
+    shown = {o.label: o for o in found.outputs}
+    assert (shown["bcd@done"].value_a, shown["bcd@done"].value_b) == (read_a, read_b)
+    assert read_a != read_b
+    # The correct converter shows the digits of the value started in cycle 1 (Python str).
+    assert read_a == reference_bcd(values[1])
+    assert (f"rose in cycle {done_a}" in found.note and f"rose in cycle {done_b}" in found.note)
+    assert done_a != done_b      # early: one edge early; count: one edge late (catalogue)
+
+
+def test_a_done_that_never_rises_is_a_difference():
+    # The catalogue's latency of meter_serial_bcd is 12 edges, so within 5 cycles of the
+    # start its done cannot rise, in either copy.
+    result = _run(*SERIAL, *SERIAL, SERIAL_SIZES, SERIAL_SIZES, max_cycles=5)
+    assert result.verdict.status == DISPROVED
+    found = result.verdict.counterexample
+    assert found.differing == ["done_rose"]
+    assert found.note.count("never rose") == 2
+
+
+def test_handshake_options_are_checked():
     from bcdprove import BcdproveError
 
-    with pytest.raises(BcdproveError, match="handshake pairs .* not supported yet"):
-        _run("clocked/meter_serial_bcd.v", "meter_serial_bcd", "clocked/meter_serial_bcd.v",
-             "meter_serial_bcd", {"W": 12, "D": 4}, {"W": 12, "D": 4})
+    with pytest.raises(BcdproveError, match="--max-cycles 0"):
+        _run(*SERIAL, *SERIAL, SERIAL_SIZES, SERIAL_SIZES, max_cycles=0)
+    with pytest.raises(BcdproveError, match="--latency describes a pipeline"):
+        _run(*SERIAL, *SERIAL, SERIAL_SIZES, SERIAL_SIZES, latency=12, start="start")
+    with pytest.raises(BcdproveError, match="--map level=reading: .* has no port `level`"):
+        _run(*SERIAL, *SERIAL, SERIAL_SIZES, SERIAL_SIZES, mapping={"level": "reading"})
+
+
+def test_a_held_input_leaves_only_the_started_value_free():
+    # --hold-input: reading keeps its cycle-1 value, so the only data inputs are cycles 0, 1;
+    # the count bug still differs (designs/catalog.json: fails first at input 1).
+    twin = "meter_serial_count_bug"
+    result = _run(*SERIAL, f"clocked/{twin}.v", twin, SERIAL_SIZES, SERIAL_SIZES,
+                  hold_input=True)
+    assert result.verdict.status == DISPROVED
+    assert sorted(result.verdict.counterexample.inputs) == ["reading@0", "reading@1"]
 
 
 def test_a_clocked_design_against_a_combinational_one_is_refused():

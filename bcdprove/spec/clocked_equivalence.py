@@ -31,7 +31,7 @@ from ..model.design import Model, Port
 from ..model.node import Node, mask
 from ..model.unroll import UnrolledModel, cycle_name, unroll
 from .clocked import Protocol, ReadPoint, _high, infer_protocol
-from .equivalence import EquivalenceProblem, build_equivalence
+from .equivalence import EquivalenceProblem, _pair_ports, build_equivalence
 
 
 def _unrolled(model: Model, which: str, latency: int, clock: Optional[str],
@@ -235,11 +235,9 @@ def build_handshake_equivalence(model_a: Model, model_b: Model, *,
     def other(name: Optional[str]) -> Optional[str]:
         return None if name is None else mapping.get(name, name)
 
-    for name_a, name_b in mapping.items():
-        for model, name in ((model_a, name_a), (model_b, name_b)):
-            if not any(p.name == name for p in model.ports):
-                raise BcdproveError(f"--map {name_a}={name_b}: `{model.top}` has no port "
-                                    f"`{name}` (ports: {', '.join(p.name for p in model.ports)})")
+    # Pair the source ports first, so a missing or mismatched port is named as the user
+    # wrote it (not as one of its per-cycle copies); clock, reset, start and done included.
+    _pair_ports(model_a, model_b, mapping)
     probe = infer_protocol(model_a, clock=clock, reset=reset, reset_low=reset_low, start=start,
                            done=done, hold_input=hold_input)
     control = {probe.clock, probe.reset, probe.start}

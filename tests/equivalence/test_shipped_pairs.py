@@ -233,6 +233,37 @@ def test_handshake_options_are_checked():
         _run(*SERIAL, *SERIAL, SERIAL_SIZES, SERIAL_SIZES, mapping={"level": "reading"})
 
 
+def test_handshakes_of_different_reset_and_port_names_are_equivalent():
+    # pump_serial_bcd_async (catalogued proved at W=10: asynchronous active-low rst_n, input
+    # total) against meter_serial_bcd at W=10 (synchronous active-high rst, input reading).
+    pump, meter = ("clocked/pump_serial_bcd_async.v", "pump_serial_bcd_async"), SERIAL
+    sizes = {"W": 10, "D": 4}
+    result = _run(*pump, *meter, sizes, sizes, mapping={"rst_n": "rst", "total": "reading"})
+    assert result.verdict.status == PROVED, result.verdict.reason
+    # Outside evidence for a few values: both in Icarus, started in cycle 1 after a reset
+    # in cycle 0, read at their first done, against Python's str (reference_bcd).
+    values = [0, 1, 9, 10, 99, 512, 999, 1023]
+    lines = []
+    for value in values:
+        lines += ["    rst = 1; rst_n = 0; start = 0; #5 clk = 1; #5 clk = 0;",
+                  f"    rst = 0; rst_n = 1; start = 1; x = 10'd{value}; #5 clk = 1; #5 clk = 0;",
+                  "    start = 0; x = 0;",
+                  "    while (!(da && db)) begin #5 clk = 1; #5 clk = 0; end",
+                  "    $display(\"%h %h\", ya, yb);"]
+    bench = "\n".join([
+        "module pair_bench;",
+        "  reg clk = 0, rst = 0, rst_n = 1, start = 0; reg [9:0] x = 0;",
+        "  wire da, db; wire [15:0] ya, yb;",
+        f"  {pump[1]} #(.W(10), .D(4)) a (.clk(clk), .rst_n(rst_n), .start(start), "
+        f".total(x), .done(da), .bcd(ya));",
+        f"  {meter[1]} #(.W(10), .D(4)) b (.clk(clk), .rst(rst), .start(start), "
+        f".reading(x), .done(db), .bcd(yb));",
+        "  initial begin", *lines, "    $finish;", "  end", "endmodule", ""])
+    text = run_icarus([DESIGNS / pump[0], DESIGNS / meter[0]], "pair_bench", bench)
+    for value, line in zip(values, text.strip().splitlines(), strict=True):
+        assert line.split() == [f"{reference_bcd(value):04x}"] * 2, (value, line)
+
+
 def test_a_held_input_leaves_only_the_started_value_free():
     # --hold-input: reading keeps its cycle-1 value, so the only data inputs are cycles 0, 1;
     # the count bug still differs (designs/catalog.json: fails first at input 1).

@@ -49,7 +49,12 @@ class LaneChecker:
     def __post_init__(self) -> None:
         from ..model.simulate import Simulator
 
-        self._simulator = Simulator([self.problem.digits_ok()])
+        shared = self.fix_unknown_values and hasattr(self.problem, "lane_simulator")
+        self._simulator = Simulator([self.problem.digits_ok()], shareable=shared)
+        if shared:
+            # The stage engine's mining extends this lowering instead of lowering the
+            # design again (it runs after auto's hunt on the same problem).
+            self.problem.lane_simulator = self._simulator
         # Untied inputs and unknown values stay unknown: the simulator is ternary and sound.
         self._others = [leaf for leaf in self._simulator.leaves if leaf is not self.problem.x]
 

@@ -36,6 +36,12 @@ class LaneChecker:
     """Bit-parallel check of one problem's digits on batches of inputs."""
 
     problem: object
+    # A hunt (it can only disprove) may run the unknown values (FREE leaves) fixed at 0: the
+    # two-valued program is several times smaller than the ternary one.  Every lane is then
+    # only as good as that one choice, so a passing lane proves nothing (never use this
+    # where a pass counts, as in exhaustive simulation) and a failing lane is a suspect
+    # for replay, not a known failure.
+    fix_unknown_values: bool = False
     settled_total: int = 0
     _simulator: object = field(default=None, repr=False)
     _others: list = field(default_factory=list, repr=False)
@@ -43,7 +49,12 @@ class LaneChecker:
     def __post_init__(self) -> None:
         from ..model.simulate import Simulator
 
-        self._simulator = Simulator([self.problem.digits_ok()])
+        shared = self.fix_unknown_values and hasattr(self.problem, "lane_simulator")
+        self._simulator = Simulator([self.problem.digits_ok()], shareable=shared)
+        if shared:
+            # The stage engine's mining extends this lowering instead of lowering the
+            # design again (it runs after auto's hunt on the same problem).
+            self.problem.lane_simulator = self._simulator
         # Untied inputs and unknown values stay unknown: the simulator is ternary and sound.
         self._others = [leaf for leaf in self._simulator.leaves if leaf is not self.problem.x]
 
@@ -71,9 +82,15 @@ class LaneChecker:
             if leaf.op != Op.FREE:          # an untied input: any value, so unknown
                 given[leaf.id] = [0] * leaf.width
                 unknown[leaf.id] = [all_lanes] * leaf.width
+            elif self.fix_unknown_values:
+                given[leaf.id] = [0] * leaf.width
         result = self._simulator.run(lanes, given, unknown)[0]
         known_bad = ~result.value[0] & ~result.unknown[0] & all_lanes
         unknown = result.unknown[0] & all_lanes
+        if self.fix_unknown_values and any(leaf.op == Op.FREE for leaf in self._others):
+            # Wrong for the one choice simulated, maybe right for the others: replay decides.
+            unknown |= known_bad
+            known_bad = 0
         suspects = known_bad | unknown
         batch = BatchResult()
         while suspects:

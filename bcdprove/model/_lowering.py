@@ -16,12 +16,15 @@ from .node import Node, Op
 Bits = list[int]
 
 
-def lower(net: BitNetlist, order: Sequence[Node], leaf_index: dict[int, int]) -> dict[int, Bits]:
-    """Bits of every node of ``order`` (topological: each node after its arguments).
+def lower(net: BitNetlist, order: Sequence[Node], leaf_index: dict[int, int],
+          done: dict[int, Bits] | None = None) -> dict[int, Bits]:
+    """Bits of every node of ``order`` (topological: each node after its arguments, or
+    after its arguments appear in ``done``, the bits of nodes lowered before into ``net``).
 
-    Leaf ``n`` loads its planes from leaf number ``leaf_index[n.id]``.
+    Leaf ``n`` loads its planes from leaf number ``leaf_index[n.id]``.  Returns a new dict
+    holding ``done``'s entries and those of ``order``.
     """
-    bits: dict[int, Bits] = {}
+    bits: dict[int, Bits] = dict(done) if done else {}
     for node in order:
         if node.op == Op.CONST:
             value = node.value

@@ -105,15 +105,30 @@ class Simulator:
     planes for every INPUT and STATE leaf and optionally for FREE ones.
     """
 
-    def __init__(self, roots: Sequence[Node]):
+    def __init__(self, roots: Sequence[Node], extend: "Simulator | None" = None,
+                 shareable: bool = False):
+        """``extend``: a shareable simulator whose lowering this one reuses (its gates and
+        leaves come first; only nodes it did not lower are lowered), so ``leaves`` may then
+        hold leaves outside this cone, which :meth:`run` still wants planes for.
+        ``shareable``: keep the lowering so that later simulators can extend it."""
         self.roots = list(roots)
         with _collector_paused():
             order = topological(self.roots)
-            self.leaves: list[Node] = [n for n in order if n.op in (Op.INPUT, Op.STATE, Op.FREE)]
+            fresh = [n for n in order if n.op in (Op.INPUT, Op.STATE, Op.FREE)]
+            if extend is None or extend._bits is None:
+                self.leaves: list[Node] = fresh
+                self._net = BitNetlist()
+                bits: dict = {}
+            else:
+                known = extend._leaf_index
+                self.leaves = list(extend.leaves) + [n for n in fresh if n.id not in known]
+                self._net = extend._net
+                bits = extend._bits
+                order = [n for n in order if n.id not in bits]
             self._leaf_index = {leaf.id: k for k, leaf in enumerate(self.leaves)}
-            self._net = BitNetlist()
-            bits = lower(self._net, order, self._leaf_index)
+            bits = lower(self._net, order, self._leaf_index, bits)
             self._outputs = [b for root in self.roots for b in bits[root.id]]
+            self._bits = bits if shareable else None
         # Scheduled on first use: a cone with unknown values may only ever run ternary.
         self._two_valued: Program | None = None
         self._ternary: dict[tuple, Program] = {}

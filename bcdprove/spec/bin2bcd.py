@@ -48,6 +48,9 @@ class Bin2BcdProblem(ReplaysOnModel):
     msd_first: bool = False
     digit_sources: list[str] = field(default_factory=list)   # "bcd[7:4]" per digit, for reports
     _ok_node: Node | None = field(default=None, repr=False, compare=False)
+    # The random hunt's lane simulator of digits_ok, kept shareable so that the stage
+    # engine's mining extends its lowering rather than lowering the design a second time.
+    lane_simulator: object = field(default=None, repr=False, compare=False)
     _simulator: object = field(default=None, repr=False, compare=False)
     _encoder: object = field(default=None, repr=False, compare=False)
     _free: list | None = field(default=None, repr=False, compare=False)

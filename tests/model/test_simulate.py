@@ -254,3 +254,34 @@ def test_double_dabble_exhaustive(width):
         per_digit = [unpack(r.value, chunk) for r in results]
         for j in range(chunk):
             assert [d[j] for d in per_digit] == _decimal_digits(start + j, len(digits))
+
+
+# a simulator extending another's lowering ------------------------------------------------------
+
+def test_an_extending_simulator_agrees_with_evaluate_and_leaves_the_base_intact():
+    # Reference: scalar evaluate() (from apply_op) lane by lane, two- and three-valued.
+    g = Graph()
+    rng = random.Random(11)
+    x = g.input("scale_reading", 12)
+    y = g.input("tare", 12)                  # a leaf only the extension's cone has
+    u = g.free(12, "test: an unknown value")
+    base_root = g.add(g.mul(x, g.const(5, 12)), u)
+    base = Simulator([base_root], shareable=True)
+    roots = [g.sub(base_root, y), g.xor(x, y), base_root]
+    grown = Simulator(roots, extend=base)
+    assert grown.leaves[:len(base.leaves)] == base.leaves
+    assert {leaf.id for leaf in grown.leaves} == {x.id, y.id, u.id}
+    lanes = 40
+    vectors = [{x.id: rng.getrandbits(12), y.id: rng.getrandbits(12), u.id: rng.getrandbits(12)}
+               for _ in range(lanes)]
+    planes = {leaf.id: pack([v[leaf.id] for v in vectors], 12) for leaf in grown.leaves}
+    results = grown.run(lanes, planes)
+    for root, got in zip(roots, results):
+        assert unpack(got.value, lanes) == [evaluate([root], v)[0] for v in vectors]
+    (again,) = base.run(lanes, {leaf.id: planes[leaf.id] for leaf in base.leaves})
+    assert unpack(again.value, lanes) == [evaluate([base_root], v)[0] for v in vectors]
+    # u left unknown: x ^ y stays known, the rest depends on u
+    known = grown.run(lanes, {x.id: planes[x.id], y.id: planes[y.id]})
+    assert unpack(known[1].value, lanes) == [v[x.id] ^ v[y.id] for v in vectors]
+    assert not any(known[1].unknown)
+    assert known[0].unknown[0] == (1 << lanes) - 1     # bit 0 is x0 ^ u0 ^ y0: u0 unknown

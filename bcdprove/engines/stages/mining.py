@@ -157,7 +157,8 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
     late_ids = {node.id for node in late}
     early = [node for _, node in named if node.id not in late_ids]
     roots = early + unnamed + list(problem.digits)
-    simulator = Simulator(roots)
+    # Extends the random hunt's lowering when auto ran one (same problem, same design).
+    simulator = Simulator(roots, extend=getattr(problem, "lane_simulator", None))
     noise = random.Random(lanes_seed + 1)
     given: dict[int, list[int]] = {}
     planes: dict[int, list[int]] = {}

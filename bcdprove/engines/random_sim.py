@@ -8,6 +8,7 @@ from __future__ import annotations
 import random
 import time
 
+from ..model.node import Op
 from .base import DISPROVED, UNKNOWN, Budget, Verdict
 from .replay import LaneChecker, shrink
 
@@ -63,6 +64,9 @@ class RandomEngine:
         reason = "random simulation can only disprove"
         if stopped:
             reason = f"{reason}; stopped early: {stopped}"
+        # Say what the lanes were simulated with: a pass holds for unknown values at 0 only.
+        fixed = ("; unknown values (x) in the design simulated as 0"
+                 if any(leaf.op == Op.FREE for leaf in problem.free_leaves()) else "")
         return Verdict(UNKNOWN, self.name, time.monotonic() - started,
-                       covered=f"{passed:,} random vectors passed (corner values first)",
+                       covered=f"{passed:,} random vectors passed (corner values first{fixed})",
                        reason=reason, stats=stats)

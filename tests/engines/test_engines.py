@@ -55,6 +55,24 @@ def test_correct_converter(engine):
     assert verdict.covered
     if engine == "random":
         assert "random vectors passed" in verdict.covered
+        assert "simulated as 0" not in verdict.covered       # no unknown value in this design
+
+
+def test_random_pass_says_unknown_values_were_simulated_at_zero():
+    # The hunt runs the design's x values fixed at 0 (it can only disprove), so its summary
+    # must not read as a pass for every resolution of them. The shipped doubling-cell design
+    # leaves table entries 10..15 as x and is right for every input (catalogue: proved,
+    # checked in Icarus by tests/designs), so the hunt finds nothing.
+    from pathlib import Path
+
+    from bcdprove.verilog import read_design
+
+    design = Path(__file__).resolve().parents[2] / "designs" / "comb" / "meter_doubling_cells.v"
+    problem = build_problem(read_design([str(design)], "meter_doubling_cells", {"W": 16, "D": 5}))
+    assert any(leaf.op == "free" for leaf in problem.free_leaves())
+    verdict = make_engine("random", EngineOptions(random_vectors=4096)).run(problem, Budget(60))
+    assert verdict.status == UNKNOWN
+    assert "simulated as 0" in verdict.covered
 
 
 @pytest.mark.parametrize("engine", ENGINES)

@@ -35,8 +35,11 @@ def _verdict_line(result) -> str:
     from ._output import verdict_line
 
     found = result.verdict.counterexample
-    return verdict_line(result.verdict, result.model.top, result.seconds,
-                        None if found is None else found.inputs)
+    inputs = None if found is None else dict(found.inputs)
+    if inputs and result.problem.spec == "bcd2bin":
+        # Packed BCD reads as its digits in hexadecimal; in decimal it means nothing.
+        inputs.update({name: f"0x{inputs[name]:x}" for name in result.problem.input_ports})
+    return verdict_line(result.verdict, result.model.top, result.seconds, inputs)
 
 
 def check_command(

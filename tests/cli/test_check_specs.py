@@ -32,6 +32,16 @@ def test_bcd2bin_proved_on_split_ports(monkeypatch, capsys):
     assert code == 0 and "PROVED" in out and "inputs `ones`, `tens`: named with --in" in out
 
 
+def test_bcd2bin_quiet_line_shows_packed_digits_in_hex(monkeypatch, capsys):
+    # Too narrow: 40 digits into 67 bits; the smallest value the output cannot hold is 2**67
+    # (Python int: 147573952589676412928), written as packed BCD its decimal digits in hex.
+    code, out, _ = _run(monkeypatch, capsys, _design("bcd2bin/meter_wide_bcd2bin.v"), "--top",
+                        "meter_wide_bcd2bin", "--spec", "bcd2bin", "--param", "D=40",
+                        "--param", "W=67", "--quiet")
+    assert code == 1
+    assert out.strip().endswith(f"counterexample reading=0x{2 ** 67}")
+
+
 def test_bcd2bin_counterexample_report(monkeypatch, capsys):
     code, out, _ = _run(monkeypatch, capsys, _design("bcd2bin/pump_keypad_loop_x9_bug.v"),
                         "--top", "pump_keypad_loop_x9_bug", "--spec", "bcd2bin",

@@ -110,13 +110,20 @@ def combinational_bench(entry: Entry, vector_file: Path, count: int) -> str:
     connections = [f".{data_input}(value[{entry.width - 1}:0])"]
     connections += [f".{port}({value})" for port, value in entry.ties.items()]
     connections += [f".{port}(seen_{port})" for port in entry.outputs]
+    return bench_body(entry, lines, connections, entry.outputs, vector_file, count)
+
+
+def bench_body(entry: Entry, lines: list[str], connections: list[str], outputs,
+               vector_file: Path, count: int) -> str:
+    """The rest of a bench after its declarations: the instance, the ``widths`` line and one
+    line per vector with each of ``outputs`` in hex (shared with tests/designs/spec_benches.py)."""
     overrides = ", ".join(f".{k}({v})" for k, v in entry.parameters.items())
     header = f"{entry.top} #({overrides})" if overrides else entry.top
     lines.append(f"    {header} dut ({', '.join(connections)});")
-    widths = " ".join("%0d" for _ in entry.outputs)
-    width_args = ", ".join(f"$bits(dut.{port})" for port in entry.outputs)
-    shown = " ".join("%h" for _ in entry.outputs)
-    shown_args = ", ".join(f"dut.{port}" for port in entry.outputs)
+    widths = " ".join("%0d" for _ in outputs)
+    width_args = ", ".join(f"$bits(dut.{port})" for port in outputs)
+    shown = " ".join("%h" for _ in outputs)
+    shown_args = ", ".join(f"dut.{port}" for port in outputs)
     lines += ["    initial begin",
               f"        $readmemh(\"{vector_file}\", stimulus);",
               f"        $display(\"widths {widths}\", {width_args});",

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from tests.designs.catalog import Entry
+from tests.designs.catalog import Entry, bench_body
 
 
 def input_ports(entry: Entry) -> list[str]:
@@ -43,25 +43,7 @@ def spec_bench(entry: Entry, vector_file: Path, count: int, port_widths: dict[st
     for port in outputs:
         lines.append(f"    wire [1023:0] seen_{port};")
         connections.append(f".{port}(seen_{port})")
-    overrides = ", ".join(f".{k}({v})" for k, v in entry.parameters.items())
-    header = f"{entry.top} #({overrides})" if overrides else entry.top
-    lines.append(f"    {header} dut ({', '.join(connections)});")
-    widths = " ".join("%0d" for _ in outputs)
-    width_args = ", ".join(f"$bits(dut.{port})" for port in outputs)
-    shown = " ".join("%h" for _ in outputs)
-    shown_args = ", ".join(f"dut.{port}" for port in outputs)
-    lines += ["    initial begin",
-              f"        $readmemh(\"{vector_file}\", stimulus);",
-              f"        $display(\"widths {widths}\", {width_args});",
-              f"        for (i = 0; i < {count}; i = i + 1) begin",
-              "            value = stimulus[i];",
-              "            #1;",
-              f"            $display(\"{shown}\", {shown_args});",
-              "        end",
-              "        $finish;",
-              "    end",
-              "endmodule", ""]
-    return "\n".join(lines)
+    return bench_body(entry, lines, connections, outputs, vector_file, count)
 
 
 def parse_rows(text: str, count: int) -> tuple[list[int], list[list[int | None]]]:

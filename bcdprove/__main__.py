@@ -1,4 +1,4 @@
 """``python -m bcdprove`` runs the command line."""
-from .cli import main
+from .cli import console
 
-main()
+console()

@@ -26,3 +26,20 @@ def test_quiet_disproved_names_the_failing_input():
     assert done.returncode == 1
     assert done.stdout.startswith("disproved: meter_threshold6_bug")
     assert "counterexample litres=" in done.stdout
+
+
+def test_reports_are_whole_when_the_process_ends_without_teardown(tmp_path):
+    # `python -m bcdprove` ends with os._exit after flushing (cli.console): every byte of
+    # the JSON on a pipe and of the JUnit file must be there, with the verdict's exit code.
+    import json
+    import xml.etree.ElementTree as ElementTree
+
+    junit = tmp_path / "report.xml"
+    done = _run("designs/comb/meter_threshold6_bug.v", "--top", "meter_threshold6_bug",
+                "--json", "--junit", str(junit))
+    assert done.returncode == 1
+    report = json.loads(done.stdout)
+    # Catalogue (checked in Icarus): 10 is the smallest failing input of this design.
+    assert report["verdict"] == "disproved"
+    assert report["counterexample"]["inputs"] == {"litres": "10"}
+    assert any(True for _ in ElementTree.parse(junit).getroot().iter("failure"))

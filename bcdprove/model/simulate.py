@@ -177,9 +177,9 @@ class Simulator:
                 modes.append("known")
         widths = [root.width for root in self.roots]
         if all(mode == "known" for mode in modes):
-            flat = self._program(m, planes, unknown_planes)
-            zero = [0] * len(flat)
-            return _split(flat, zero, widths)
+            with _collector_paused():       # a result can hold 10**5 roots' planes
+                flat = self._program(m, planes, unknown_planes)
+                return _split(flat, [0] * len(flat), widths)
         key = tuple(modes)
         program = self._ternary.get(key)
         if program is None:
@@ -187,9 +187,10 @@ class Simulator:
                 net, value_bits, unknown_bits = self._net.ternary(self._outputs, modes)
                 program = net.compile(value_bits + unknown_bits, "three_valued")
             self._ternary[key] = program
-        flat = program(m, planes, unknown_planes)
-        half = len(flat) // 2
-        return _split(flat[:half], flat[half:], widths)
+        with _collector_paused():
+            flat = program(m, planes, unknown_planes)
+            half = len(flat) // 2
+            return _split(flat[:half], flat[half:], widths)
 
 
 @contextmanager

@@ -11,7 +11,8 @@ from bcdprove.engines.base import DISPROVED, PROVED, UNKNOWN, Budget
 from bcdprove.engines.stages import StageEngine
 from bcdprove.model import Graph, Model, Port
 from bcdprove.spec.bin2bcd import build_problem
-from tests.support.converters import buggy_double_dabble, division_by_ten, double_dabble
+from tests.support.converters import (buggy_double_dabble, division_by_ten, double_dabble,
+                                      python_digits)
 
 STATS = ("stages_matched", "stages_total", "obligations", "distinct_obligations",
          "slowest_obligation_seconds", "slowest_obligation")
@@ -25,11 +26,6 @@ def _problem(builder, width: int, max_input=None, **options):
                   ports=[Port("x", "input", width, False, x),
                          Port("bcd", "output", packed.width, False, packed)])
     return build_problem(model, inputs=["x"], outputs=["bcd"], max_input=max_input)
-
-
-def _python_digits(x: int, count: int) -> list[int]:
-    text = str(x)[::-1]                                # Python str as reference
-    return [int(text[i]) if i < len(text) else 0 for i in range(count)]
 
 
 @pytest.mark.parametrize("width", [4, 8, 13, 24])
@@ -66,7 +62,7 @@ def test_wrong_threshold_is_disproved_with_a_real_counterexample(width):
     found = verdict.counterexample
     assert found.replayed
     x = found.inputs["x"]
-    expected = _python_digits(x, len(problem.digits))
+    expected = python_digits(x, len(problem.digits))
     assert found.expected[:len(expected)] == expected
     # The model really shows something else at x (scalar evaluation, independent of lanes).
     assert problem.evaluate(x) != expected
@@ -78,7 +74,7 @@ def test_threshold_six_is_disproved():
     verdict = StageEngine().run(problem, Budget(120))
     assert verdict.status == DISPROVED
     x = verdict.counterexample.inputs["x"]
-    assert problem.evaluate(x) != _python_digits(x, len(problem.digits))
+    assert problem.evaluate(x) != python_digits(x, len(problem.digits))
 
 
 def test_max_input_restricts_only_the_outputs():
@@ -120,7 +116,7 @@ def test_a_design_of_neither_family_is_unknown_with_both_reasons():
     # It is wrong (x = 0 shows 1; Python int), so a replayed counterexample is fine too.
     if verdict.status == DISPROVED:
         x = verdict.counterexample.inputs["x"]
-        assert problem.evaluate(x) != _python_digits(x, len(problem.digits))
+        assert problem.evaluate(x) != python_digits(x, len(problem.digits))
     else:
         assert verdict.status == UNKNOWN
         assert "division" in verdict.reason

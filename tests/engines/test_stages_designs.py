@@ -14,7 +14,8 @@ from bcdprove.engines.base import DISPROVED, PROVED, Budget
 from bcdprove.engines.stages import StageEngine
 from bcdprove.spec.bin2bcd import build_problem
 from bcdprove.verilog import read_design
-from tests.support.icarus import run_icarus
+from tests.support.converters import python_digits
+from tests.support.icarus import icarus_bcd_digits
 
 DESIGNS = Path(__file__).resolve().parents[2] / "designs" / "wide"
 
@@ -33,28 +34,6 @@ def _problem(top: str, width: int, ties=None, max_input=None):
     return build_problem(model, ties=ties or None, max_input=max_input)
 
 
-def _python_digits(x: int, count: int) -> list[int]:
-    text = str(x)[::-1]                                   # Python str as reference
-    return [int(text[i]) if i < len(text) else 0 for i in range(count)]
-
-
-def _icarus_digits(top: str, width: int, x: int, digit_count: int) -> list[int]:
-    """The digits Icarus shows for input ``x`` (bcd printed in hex: one nibble a digit)."""
-    bench = f"""
-module bench;
-    reg  [{width - 1}:0] count;
-    wire [{4 * digit_count - 1}:0] bcd;
-    {top} #(.W({width})) dut (.count(count), .bcd(bcd));
-    initial begin
-        count = {width}'d{x};
-        #1 $display("%h", bcd);
-    end
-endmodule
-"""
-    text = run_icarus([DESIGNS / f"{top}.v"], "bench", extra_text=bench).split()[-1]
-    return [int(c, 16) if c in "0123456789abcdef" else -1 for c in reversed(text)]
-
-
 def _check_disproved(top: str, width: int, verdict, problem) -> int:
     assert verdict.status == DISPROVED, verdict.reason
     assert verdict.engine == "stages"
@@ -62,9 +41,9 @@ def _check_disproved(top: str, width: int, verdict, problem) -> int:
     assert found.replayed
     x = found.inputs["count"]
     shown = len(problem.digits)
-    expected = _python_digits(x, max(shown, len(str(x))))
+    expected = python_digits(x, max(shown, len(str(x))))
     assert found.expected == expected
-    icarus = _icarus_digits(top, width, x, shown)
+    icarus = icarus_bcd_digits(DESIGNS / f"{top}.v", top, width, x, shown, {"W": width})
     # Wrong in Icarus too: a digit differs, or the number needs more digits than are shown.
     assert icarus != expected[:shown] or len(str(x)) > shown
     return x

@@ -189,3 +189,18 @@ def test_lifted_inputs_start_with_the_stage_value():
 def test_an_unreachable_state_lifts_to_nothing():
     # 130 is not below 2**7 = 128, so no input reaches it at stage 7 (Python int).
     assert candidate_inputs({"in:d0": 0, "in:d1": 3, "in:d2": 1}, 12, 7, 3) == []
+
+
+def test_facts_spread_through_a_complement_as_complements():
+    # not(a) holds digit 0 bit 1 and the constant 1: so a holds the complement of that digit
+    # bit and the constant 0 (bitwise negation, IEEE 1364-2005 clause 5.1.10, clause number
+    # recalled from memory).
+    from bcdprove.engines.stages.cuts import ConstBit, DigitBit
+    from bcdprove.engines.stages.engine import _spread
+
+    graph = Graph()
+    a = graph.xor(graph.input("p", 2), graph.input("q", 2))
+    inverted = graph.not_(a)
+    facts = {inverted.id: [ConstBit(1), DigitBit(0, 1)]}
+    _spread(facts, {inverted.id: inverted})
+    assert facts[a.id] == [ConstBit(0), DigitBit(0, 1, negated=True)]

@@ -15,6 +15,13 @@ def digit_count(width: int) -> int:
     return len(str((1 << width) - 1))
 
 
+def python_digits(x: int, count: int) -> list[int]:
+    """The ``count`` low decimal digits of ``x``, least significant first (Python ``str`` as
+    reference)."""
+    text = str(x)[::-1]
+    return [int(text[i]) if i < len(text) else 0 for i in range(count)]
+
+
 def double_dabble(graph: Graph, width: int, name: str = "x", threshold: int = 4,
                   addend: int = 3) -> tuple[Node, list[Node]]:
     """Shift-and-add-3: before each shift, every digit above ``threshold`` gets ``addend``.

@@ -57,3 +57,24 @@ def run_icarus(sources: Sequence[str | os.PathLike], top: str, extra_text: str =
         if ran.returncode != 0:
             raise AssertionError(f"vvp failed:\n{ran.stderr}{ran.stdout}")
         return ran.stdout
+
+
+def icarus_bcd_digits(source: str | os.PathLike, top: str, width: int, x: int, digit_count: int,
+                      parameters: dict[str, int] | None = None) -> list[int]:
+    """The digits Icarus shows for input ``x`` on a converter with ports ``count`` and
+    ``bcd`` (printed in hex: one nibble a digit), least significant first; -1 for a nibble
+    with x or z bits."""
+    overrides = ", ".join(f".{name}({value})" for name, value in (parameters or {}).items())
+    bench = f"""
+module bench;
+    reg  [{width - 1}:0] count;
+    wire [{4 * digit_count - 1}:0] bcd;
+    {top} {f"#({overrides}) " if overrides else ""}dut (.count(count), .bcd(bcd));
+    initial begin
+        count = {width}'d{x};
+        #1 $display("%h", bcd);
+    end
+endmodule
+"""
+    text = run_icarus([source], "bench", extra_text=bench).split()[-1]
+    return [int(c, 16) if c in "0123456789abcdef" else -1 for c in reversed(text)]

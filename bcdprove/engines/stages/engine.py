@@ -31,7 +31,7 @@ def _spread(facts: dict[int, list], nodes: dict[int, Node], floor: int = -1,
             depth: int = 1000) -> None:
     """Give the parts of a cut node its facts: the bits of ``concat(a, b)`` are the bits of
     ``a`` and ``b``, those of ``extract(m)`` bits of ``m``, the low bits of ``zext(a)`` those
-    of ``a``.  Hash-consing folds a slice of a concatenation to the part itself, so the next
+    of ``a``, and ``not(a)`` the complements of those of ``a``.  Hash-consing folds a slice of a concatenation to the part itself, so the next
     stage usually reads the parts, not the node the mining named.  Leaves get no facts (the
     input's bits must stay input bits), nor nodes made before ``floor`` (the previous
     stage's; an earlier stage's nodes already hold facts of their own)."""
@@ -49,6 +49,9 @@ def _spread(facts: dict[int, list], nodes: dict[int, Node], floor: int = -1,
             elif node.op == Op.EXTRACT:
                 pieces.append((node.args[0], -node.params[1]))
             elif node.op == Op.ZEXT:
+                pieces.append((node.args[0], 0))
+            elif node.op == Op.NOT:
+                bits = [_negated(fact) for fact in bits]
                 pieces.append((node.args[0], 0))
             for part, offset in pieces:
                 if part.op in Op.LEAVES or part.id <= floor:
@@ -68,6 +71,43 @@ def _spread(facts: dict[int, list], nodes: dict[int, Node], floor: int = -1,
                     nodes[part.id] = part
                     following.append(part)
         frontier = following
+
+
+def _unpack(graph: Graph, facts: dict[int, list], nodes: dict[int, Node], node: Node) -> None:
+    """Give the nets that bit-level mining grouped into ``node`` (a concatenation of nets and
+    complements of nets) its facts, however old the nets are: unlike the parts that
+    :func:`_spread` reaches, they are this stage's digits themselves (a net that carries a
+    digit bit unchanged through several stages is each stage's in turn).  Hash-consing
+    joins neighbouring input bits into one slice; the design reads them one by one, so
+    each bit's own slice (``graph`` returns the existing node) gets its fact."""
+    offset = node.width
+    for part in node.args:
+        offset -= part.width
+        bits = facts[node.id][offset:offset + part.width]
+        if part.op == Op.NOT:
+            part, bits = part.args[0], [_negated(fact) for fact in bits]
+        if part.op in Op.LEAVES:
+            continue
+        pieces = [(part, bits)]
+        if part.op == Op.EXTRACT and part.width > 1:
+            base = part.params[1]
+            pieces += [(graph.extract(part.args[0], base + i, base + i), [bits[i]])
+                       for i in range(part.width)]
+        for piece, known in pieces:
+            held = facts.setdefault(piece.id, [None] * piece.width)
+            for i, fact in enumerate(known):
+                if held[i] is None:
+                    held[i] = fact
+            nodes[piece.id] = piece
+
+
+def _negated(fact):
+    """The fact of a bit's complement (None where it cannot be said: an input bit's)."""
+    if isinstance(fact, DigitBit):
+        return DigitBit(fact.digit, fact.bit, not fact.negated)
+    if isinstance(fact, ConstBit):
+        return ConstBit(1 - fact.value)
+    return None
 
 
 def _runs(facts: list) -> list[tuple[int, int]]:
@@ -230,7 +270,7 @@ class _Run:
         chosen: list[Candidate] = []
         # Sparse digits collide with unrelated nodes: prefer nodes made just after the
         # previous stage's (the graph numbers nodes in the order elaboration made them).
-        anchor = max(cut.facts, default=-1)
+        anchor = self._newest(cut)
         try:
             for j in range(digit_count(stage)):
                 picked = None
@@ -278,8 +318,41 @@ class _Run:
             for low, high in _runs(proposed):
                 for i, fact in self._prove_bits(builder, cut, stage, node, low, high, proposed):
                     bits[i] = fact
-        _spread(facts, nodes, floor=max(cut.facts, default=-1))
+        for j, candidate in enumerate(chosen):
+            if candidate.node.id in self.mining.synthetic:
+                _unpack(self.problem.model.graph, facts, nodes, candidate.node)
+                self._equal_nets(builder, cut, stage, j, facts, nodes)
+        _spread(facts, nodes, floor=self._newest(cut))
         return Cut(stage=stage, digits=digit_count(stage), facts=facts)
+
+    def _equal_nets(self, builder: ConeBuilder, cut: Cut, stage: int, j: int,
+                    facts: dict[int, list], nodes: dict[int, Node]) -> None:
+        """Facts for every other net that simulation found equal to a bit of digit ``j``
+        (a cell's "5 or more" net and its carry out, say): each is proved equal to the
+        reference bit from the previous cut, so whichever of them the next stage reads
+        stops its cone there."""
+        digit = self._reference(cut.stage, stage)[j]
+        for b, nets in enumerate(self.mining.bit_options.get((stage, j), ())):
+            for net, negated in nets:
+                if net.id in facts or net.op in Op.LEAVES:
+                    continue
+                expected = self.cone.extract(digit, b, b)
+                try:
+                    rebuilt = builder.slice(net, 0, 0)
+                except (NotACut, RecursionError):
+                    continue
+                if negated:
+                    rebuilt = self.cone.not_(rebuilt)
+                where = f"stage {cut.stage} -> {stage}, {net!r} as bit {b} of digit {j}"
+                if self._check(rebuilt, expected, cut, where).status == outcomes.PROVED:
+                    facts[net.id] = [DigitBit(j, b, negated)]
+                    nodes[net.id] = net
+
+    def _newest(self, cut: Cut) -> int:
+        """The newest design node holding a fact of ``cut`` (nodes that bit-level mining
+        made after elaboration do not count: their parts hold the same facts)."""
+        synthetic = self.mining.synthetic
+        return max((i for i in cut.facts if i not in synthetic), default=-1)
 
     def _prove_bits(self, builder: ConeBuilder, cut: Cut, stage: int, node: Node, low: int,
                     high: int, proposed: list) -> list[tuple[int, object]]:

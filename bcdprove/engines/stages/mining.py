@@ -18,6 +18,7 @@ from typing import Optional
 
 from ...model.node import Node, Op, mask, topological
 from ...model.simulate import Simulator, pack
+from .bit_mining import assemble, bit_level_nodes, lowest_input_bits, named_bits
 from .cuts import ConstBit, Fact, InputBit
 from .reference import digit_count, step_planes
 
@@ -32,7 +33,8 @@ class Candidate:
     node: Node
     low: int
     name: str
-    tier: int                  # 0 named signal, 1 unnamed node, 2 complement of an unnamed node
+    tier: int                  # 0 named signal, 1 unnamed node, 2 complement of an unnamed
+                               # node, 3 assembled from 1-bit signals (see bit_mining)
     complemented: bool = False
 
     def describe(self) -> str:
@@ -53,6 +55,8 @@ class Mining:
     planes: dict[int, list[int]] = field(default_factory=dict)    # node id -> value planes
     unknown: dict[int, list[int]] = field(default_factory=dict)   # node id -> unknown planes
     input_planes: dict[int, int] = field(default_factory=dict)    # x bit plane -> bit index
+    synthetic: set[int] = field(default_factory=set)   # ids of nodes made by bit-level mining
+    bit_options: dict = field(default_factory=dict)    # (stage, digit) -> per bit, matching nets
 
     def coverage(self, stage: int, node_id: int) -> int:
         """How many digits of ``stage`` have a candidate in node ``node_id``."""
@@ -236,6 +240,23 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
     if unmatched():
         for node in unnamed:
             offer(node, f"~n{node.id}", 2, complemented=True)
+    synthetic: set[int] = set()
+    bit_options: dict = {}
+    if unmatched():
+        # A gate-level netlist: no word holds a digit, so assemble digits from 1-bit nets.
+        bits = bit_level_nodes(cone)
+        fresh = [node for node in bits if node.id not in planes]
+        if fresh:
+            run(Simulator(fresh), fresh)
+        found = {(s, j) for s, j, _ in offered}
+        missing = [(s, j, key) for s, digits in enumerate(reference)
+                   for j, key in enumerate(digits) if (s, j) not in found]
+        for s, j, node, label in assemble(problem.model.graph, missing, bits, planes, unknown,
+                                          lanes, named_bits(problem.model.signals, nesting),
+                                          bit_options, lowest_input_bits(cone, problem.x),
+                                          width):
+            offered[(s, j, (node.id, 0, False))] = Candidate(node, 0, label, 3)
+            synthetic.add(node.id)
     for (s, j, _), candidate in offered.items():
         candidates[s][j].append(candidate)
     for digits in candidates:
@@ -245,7 +266,7 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
     wrong = _wrong_lanes(problem, values, shown, reference[width])
     return Mining(width=width, lanes=lanes, inputs=values, candidates=candidates, planes=planes,
                   unknown=unknown, input_planes=input_planes, wrong_inputs=wrong,
-                  simulator=simulator)
+                  simulator=simulator, synthetic=synthetic, bit_options=bit_options)
 
 
 def screen(mining: Mining, problem, inputs: list[int]) -> list[int]:

@@ -16,6 +16,7 @@ from pyverilog.vparser import parser as _base
 
 from ._grammar_functions import FunctionGrammar
 from ._grammar_functions import word as _word
+from ._grammar_lists import ListGrammar
 from ._lexer import ExtendedLexer
 
 __all__ = ["ExtendedParser", "SyntaxProblem", "FillConst", "Logic", "Int", "LoopDeclaration",
@@ -84,7 +85,7 @@ _COMPOUND_OPERATORS = {
 _VARIABLE_CLASSES = {"wire": vast.Wire, "reg": vast.Reg, "logic": Logic, "tri": vast.Tri}
 
 
-class ExtendedParser(FunctionGrammar, _base.VerilogParser):
+class ExtendedParser(FunctionGrammar, ListGrammar, _base.VerilogParser):
     """pyverilog's parser with extra productions; tables come from ``load_tables``."""
 
     def __init__(self, load_tables):

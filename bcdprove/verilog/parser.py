@@ -48,7 +48,7 @@ from pyverilog.vparser import ast as vast
 from ..errors import BcdproveError, UnsupportedConstruct
 from ..model.design import SourceLocation
 from .preprocess import Preprocessed
-from . import _grammar, _grammar_functions, _lexer
+from . import _grammar, _grammar_functions, _grammar_lists, _lexer
 from ._grammar import FillConst, Int, Logic, LoopDeclaration
 
 __all__ = ["parse", "location", "FillConst", "Int", "Logic", "LoopDeclaration"]
@@ -136,7 +136,8 @@ def _cache_directory() -> Path:
         raise OSError("no absolute cache folder")
     digest = hashlib.sha256()
     digest.update(f"{pyverilog.__version__}|{ply.__version__}|".encode())
-    for source in (_grammar.__file__, _grammar_functions.__file__, _lexer.__file__,
+    for source in (_grammar.__file__, _grammar_functions.__file__, _grammar_lists.__file__,
+                   _lexer.__file__,
                    _grammar.base_grammar_file()):
         try:
             digest.update(Path(source).read_bytes())

@@ -748,3 +748,20 @@ def test_function_body_of_several_statements_becomes_one_block():
                             "  assign y = f(4'd3);\nendmodule"), vast.Function)
     body = function.statement[-1]
     assert isinstance(body, vast.Block) and len(body.statements) == 2
+
+
+def test_every_module_item_is_kept_in_source_order():
+    # Module items (IEEE 1364-2005 clause 12.1) are collected in one growing list (linear
+    # time for netlists of 10**5 items); all 3,000 must be there, in the order written.
+    count = 1000
+    lines = ["module many (input a, output [999:0] y);"]
+    lines += [f"    wire w{i};" for i in range(count)]
+    lines += [f"    not g{i} (w{i}, a);" for i in range(count)]
+    lines += [f"    assign y[{i}] = w{i};" for i in range(count)]
+    module = _module("\n".join(lines + ["endmodule"]))
+    kinds = [type(item).__name__ for item in module.items]
+    assert kinds == ["Decl"] * count + ["InstanceList"] * count + ["Assign"] * count
+    names = [item.list[0].name for item in module.items[:count]]
+    assert names == [f"w{i}" for i in range(count)]
+    gates = [item.instances[0].name for item in module.items[count:2 * count]]
+    assert gates == [f"g{i}" for i in range(count)]

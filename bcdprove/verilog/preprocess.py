@@ -175,11 +175,18 @@ def _strip_comments(text: str, path: str) -> str:
             line += chunk.count("\n")
             i = j + 2
         else:
-            if c == "\n":
-                line += 1
-            out.append(c)
-            i += 1
+            # Copy up to the next character that may open a string, an escaped name or a
+            # comment in one piece (a character loop took 0.2 s on a 0.9 MB netlist).
+            found = _PLAIN_RUN_END.search(text, i + 1)
+            j = n if found is None else found.start()
+            line += text.count("\n", i, j)
+            out.append(text[i:j])
+            i = j
     return "".join(out)
+
+
+_PLAIN_RUN_END = re.compile(r'["\\/]')
+_SCANNER_STOP = re.compile(r'[\n`"\\]')
 
 
 def _string_end(text: str, start: int) -> int:
@@ -261,8 +268,10 @@ class _Scanner:
                 self.current.append(text[self.pos:end])
                 self.pos = end
             else:
-                match = _IDENTIFIER.match(text, self.pos)
-                end = match.end() if match else self.pos + 1
+                # Plain text up to the next newline, directive, string or escaped name is
+                # copied in one piece (no identifier holds any of those characters).
+                found = _SCANNER_STOP.search(text, self.pos + 1)
+                end = n if found is None else found.start()
                 self.current.append(text[self.pos:end])
                 self.pos = end
         if self.current or not self.text.endswith("\n"):

@@ -22,6 +22,7 @@ import os
 import resource
 import subprocess
 import sys
+import tempfile
 import time
 from pathlib import Path
 
@@ -36,14 +37,33 @@ ARCHITECTURES = {
     "meter_wide_add3_triangle": ("add-3 array, triangle", {}),
     "meter_wide_doubling": ("doubling table cells", {}),
     "meter_wide_wrapped": ("loop + short path", {"en": 1}),
+    # Generated per width by designs/tools/gate_netlist.py (a 256-bit netlist is 15 MB).
+    "meter_wide_gates": ("gate-level netlist", {}),
 }
+GENERATED = {"meter_wide_gates"}
+_NETLISTS = Path(tempfile.mkdtemp(prefix="bcdprove-bench-"))
+
+
+def _source(top: str, width: int) -> tuple[Path, str, dict]:
+    """File, top module and parameters of an architecture at ``width`` bits."""
+    if top not in GENERATED:
+        return DESIGNS / f"{top}.v", top, {"W": width}
+    path = _NETLISTS / f"{top}{width}.v"
+    if not path.exists():
+        sys.path.insert(0, str(ROOT / "designs" / "tools"))
+        import gate_netlist
+        path.write_text(gate_netlist.build_wide(width))
+    return path, f"{top}{width}", {}
 GOALS = {64: 3.0, 128: 10.0, 256: 60.0}   # seconds from command start to verdict
 GROWTH_GOAL = 4.5
 
 
 def _command(top: str, width: int, ties: dict, engine: str) -> list[str]:
-    command = [sys.executable, "-m", "bcdprove", "check", str(DESIGNS / f"{top}.v"), "--top", top,
-               "--param", f"W={width}", "--engine", engine, "--json"]
+    path, module, parameters = _source(top, width)
+    command = [sys.executable, "-m", "bcdprove", "check", str(path), "--top", module,
+               "--engine", engine, "--json"]
+    for name, value in parameters.items():
+        command += ["--param", f"{name}={value}"]
     for port, value in ties.items():
         command += ["--tie", f"{port}={value}"]
     return command
@@ -81,7 +101,8 @@ def _miter_seconds(top: str, width: int, ties: dict, timeout: float) -> tuple[st
     from bcdprove.spec.bin2bcd import build_problem
     from bcdprove.verilog import read_design
 
-    model = read_design([str(DESIGNS / f"{top}.v")], top=top, parameters={"W": width})
+    path, module, parameters = _source(top, width)
+    model = read_design([str(path)], top=module, parameters=parameters)
     problem = build_problem(model, ties=ties or None)
     encoder = Z3Encoder(z3.Context())
     ctx = encoder.ctx
@@ -162,7 +183,8 @@ def main() -> None:
         for top in tops:
             label, ties = ARCHITECTURES[top]
             answer, seconds = _miter_seconds(top, 24, ties, 120.0)
-            model = read_design([str(DESIGNS / f"{top}.v")], top=top, parameters={"W": 24})
+            path, module, parameters = _source(top, 24)
+            model = read_design([str(path)], top=module, parameters=parameters)
             ours = StageEngine().run(build_problem(model, ties=ties or None), Budget(300.0)).seconds
             print(f"  {label:24} miter {answer:>8} {seconds:7.1f} s   stages {ours:6.2f} s   "
                   f"ratio >= {seconds / ours:6.0f}x", flush=True)

@@ -116,3 +116,31 @@ def test_buggy_designs_are_disproved_at_128_bits(top):
     problem = _problem(top, 128)
     verdict = StageEngine().run(problem, Budget(600))
     _check_disproved(top, 128, verdict, problem)
+
+
+@pytest.mark.parametrize("width", [32, 64, pytest.param(128, marks=pytest.mark.slow)])
+def test_a_saturating_wrapper_is_proved_up_to_the_display_maximum(width):
+    # The display has two digits fewer than 2**width - 1 needs (Python str); above its
+    # largest value, 10**S - 1, it shows all nines.  The step to the outputs reads the
+    # saturation test `count > LIMIT`, false over the whole checked range.
+    shown = len(str((1 << width) - 1)) - 2
+    problem = _problem("meter_wide_saturating", width, max_input=10 ** shown - 1)
+    assert len(problem.digits) == shown
+    verdict = StageEngine().run(problem, Budget(600))
+    assert verdict.status == PROVED, verdict.reason
+
+
+def test_a_saturation_limit_one_digit_short_is_not_proved(tmp_path):
+    # Saturating above 10**(S-1) - 1 shows all nines for 10**(S-1) (Python int), which the
+    # display could show: the folding must not take the test for constant.
+    shown = len(str((1 << 32) - 1)) - 2
+    text = (DESIGNS / "meter_wide_saturating.v").read_text().replace(
+        "all_nines(S);", "all_nines(S - 1);")
+    assert "all_nines(S - 1)" in text
+    path = tmp_path / "short_limit.v"
+    path.write_text(text)
+    model = read_design([str(path)], top="meter_wide_saturating", parameters={"W": 32})
+    problem = build_problem(model, max_input=10 ** shown - 1)
+    verdict = StageEngine().run(problem, Budget(120))
+    assert verdict.status != PROVED
+    assert problem.evaluate(10 ** (shown - 1)) != python_digits(10 ** (shown - 1), shown)

@@ -204,3 +204,21 @@ def test_facts_spread_through_a_complement_as_complements():
     facts = {inverted.id: [ConstBit(1), DigitBit(0, 1)]}
     _spread(facts, {inverted.id: inverted})
     assert facts[a.id] == [ConstBit(0), DigitBit(0, 1, negated=True)]
+
+
+def test_an_input_test_constant_over_the_range_is_folded_and_others_are_kept():
+    # x > 200 is false for every x <= 150 and true for x = 201 <= 250 (integer comparison,
+    # IEEE 1364-2005 clause 5.1.7, clause number recalled from memory).
+    from bcdprove.engines.stages.cuts import digit_leaf, input_bit_leaf
+    from bcdprove.engines.stages.side_conditions import fold_input_tests, input_tests
+
+    cone = Graph()
+    x = cone.concat(*[input_bit_leaf(cone, 8, 8, i) for i in range(7, -1, -1)])
+    above = cone.ult(cone.const(200, 8), x)
+    digit = digit_leaf(cone, 0)
+    shown = cone.ite(above, cone.const(9, 4), digit)
+    bad = cone.ne(shown, digit)
+    assert input_tests(bad) == [above]
+    solver = ObligationSolver()
+    assert fold_input_tests(cone, bad, 8, 8, 150, solver, 10.0).op == "const"
+    assert fold_input_tests(cone, bad, 8, 8, 250, solver, 10.0) is bad

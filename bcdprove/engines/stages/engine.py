@@ -21,6 +21,7 @@ from .lifting import confirm, split_values
 from .mining import Candidate, Mining, mine, nesting, screen
 from .obligations import ObligationSolver, Outcome
 from .reference import digit_count, step_nodes, top_pair_bound
+from .side_conditions import fold_input_tests
 
 Progress = Callable[[int, int], None]
 _REFINEMENTS = 64        # answers excluded one by one before a linked query is given up
@@ -529,6 +530,13 @@ class _Run:
         left = self.budget.remaining()
         if left is not None:
             timeout = min(timeout, max(left, 0.001))
+        if linked and extra is not None and self.problem.max_input is not None:
+            # The step to the outputs, restricted to x <= max_input: a saturation or
+            # short-path test on the input alone may be constant over that range.
+            bad = fold_input_tests(cone, bad, self.width, cut.stage, self.problem.max_input,
+                                   self.solver, timeout)
+            linked = cut.digits > 0 and any(leaf.params[0].startswith("b-")
+                                            for leaf in leaves([bad]) if leaf.op == Op.INPUT)
         if linked:
             return self._check_refined(bad, cut, where, timeout)
         return self.solver.check(bad, where, timeout)

@@ -1,7 +1,9 @@
 """The auto engine: a quick random bug hunt, then the strongest engine that fits the width.
 
 Order: random (``hunt_vectors``), then exhaustive when the contract has at most
-``2**exhaustive_limit`` inputs, else stages (when installed), else the smt miter.  For the
+``2**exhaustive_limit`` inputs (from :data:`STAGES_FIRST_BITS` bits on, the stage engine
+first, briefly), else stages (when installed), else the smt miter.  A counterexample found
+while exhaustive simulation fits is replaced by the smallest failing input.  For the
 bcd2bin and signed specs the stage engine may leave designs it cannot cut undecided, so the
 smt miter follows it there, for at most :data:`FALLBACK_SMT_SECONDS`.  The
 verdict is the first decisive one; otherwise unknown, with what every engine covered.
@@ -17,6 +19,12 @@ from .registry import EngineOptions, stage_engine
 # The miter after the bcd2bin/signed stage engines is a last try, not a wait without end
 # when no --timeout was given.
 FALLBACK_SMT_SECONDS = 120.0
+# From this width on, the stage engine goes before exhaustive simulation, for at most
+# STAGES_FIRST_SECONDS: it proves a 24-bit converter in a fraction of a second where
+# simulating all 2**24 inputs took up to 6 s (bench/bench_stages.py --widths 24); when it
+# cannot decide, exhaustive simulation still does.
+STAGES_FIRST_BITS = 20
+STAGES_FIRST_SECONDS = 5.0
 
 
 class _Bounded:
@@ -46,10 +54,13 @@ class AutoEngine:
 
         plan = [RandomEngine(self.options.hunt_vectors, self.options.seed)]
         exhaustive = ExhaustiveEngine(self.options.exhaustive_limit)
+        stages = stage_engine(self.options)
         if exhaustive.applies(problem):
+            if (problem.spec == "bin2bcd" and problem.width >= STAGES_FIRST_BITS
+                    and stages is not None):
+                plan.append(_Bounded(stages, STAGES_FIRST_SECONDS))
             plan.append(exhaustive)
             return plan
-        stages = stage_engine(self.options)
         if problem.spec != "bin2bcd":
             # The stage engines of the other specs cover the designs they can cut; for the
             # rest a miter with the time that is left is the better bet than unknown.
@@ -96,7 +107,7 @@ class AutoEngine:
                                                     or not verdict.counterexample.replayed):
                     reasons.append(f"{verdict.engine}: a counterexample without replay was ignored")
                     continue
-                if verdict.status == DISPROVED and verdict.engine == "random":
+                if verdict.status == DISPROVED and verdict.engine in ("random", "stages"):
                     smallest = self._smallest(problem, budget, verdict, stats)
                     if smallest is not verdict:
                         covered.append(f"smallest failing input: {smallest.covered}")

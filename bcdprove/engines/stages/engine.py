@@ -32,8 +32,9 @@ def _spread(facts: dict[int, list], nodes: dict[int, Node], floor: int = -1,
             depth: int = 1000) -> None:
     """Give the parts of a cut node its facts: the bits of ``concat(a, b)`` are the bits of
     ``a`` and ``b``, those of ``extract(m)`` bits of ``m``, the low bits of ``zext(a)`` those
-    of ``a``, and ``not(a)`` the complements of those of ``a``.  Hash-consing folds a slice of a concatenation to the part itself, so the next
-    stage usually reads the parts, not the node the mining named.  Leaves get no facts (the
+    of ``a``, and ``not(a)`` the complements of those of ``a``.  Hash-consing folds a slice
+    of a concatenation to the part itself, so the next stage usually reads the parts, not
+    the node the mining named.  Leaves get no facts (the
     input's bits must stay input bits), nor nodes made before ``floor`` (the previous
     stage's; an earlier stage's nodes already hold facts of their own)."""
     frontier = list(nodes.values())
@@ -334,10 +335,10 @@ class _Run:
         stops its cone there."""
         digit = self._reference(cut.stage, stage)[j]
         for b, nets in enumerate(self.mining.bit_options.get((stage, j), ())):
+            expected = self.cone.extract(digit, b, b)
             for net, negated in nets:
                 if net.id in facts or net.op in Op.LEAVES:
                     continue
-                expected = self.cone.extract(digit, b, b)
                 try:
                     rebuilt = builder.slice(net, 0, 0)
                 except (NotACut, RecursionError):

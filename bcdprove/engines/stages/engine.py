@@ -34,9 +34,9 @@ def _spread(facts: dict[int, list], nodes: dict[int, Node], floor: int = -1,
     ``a`` and ``b``, those of ``extract(m)`` bits of ``m``, the low bits of ``zext(a)`` those
     of ``a``, and ``not(a)`` the complements of those of ``a``.  Hash-consing folds a slice
     of a concatenation to the part itself, so the next stage usually reads the parts, not
-    the node the mining named.  Leaves get no facts (the
-    input's bits must stay input bits), nor nodes made before ``floor`` (the previous
-    stage's; an earlier stage's nodes already hold facts of their own)."""
+    the node the mining named.  Leaves get no facts (the input's bits must stay input
+    bits), nor nodes made before ``floor`` (the previous stage's; an earlier stage's nodes
+    already hold facts of their own)."""
     frontier = list(nodes.values())
     for _ in range(depth):
         following = []

@@ -71,11 +71,21 @@ class Resolver:
         self._call_depth = 0
         self._call_counts: dict[str, int] = {}
         self.probes_enabled = True
+        # A location depends only on the syntax node's line; wide generate loops ask for the
+        # same few lines tens of thousands of times (every driver records where it was made).
+        self._locations: dict[Any, SourceLocation] = {}
+        # Constant expressions by _constant_memo.constant_key, and the syntax nodes' shapes.
+        self.constants: dict[tuple, tuple[Node, Type]] = {}
+        self.constant_shapes: dict[int, tuple] = {}
 
     # --------------------------------------------------------------- diagnostics
     def location(self, node: Any) -> SourceLocation:
-        from .parser import location
-        return location(self.pre, node)
+        line = getattr(node, "lineno", None)
+        found = self._locations.get(line)
+        if found is None:
+            from .parser import location
+            found = self._locations[line] = location(self.pre, node)
+        return found
 
     def error(self, message: str, node: Any, kind: type = BcdproveError) -> BcdproveError:
         if node is None:

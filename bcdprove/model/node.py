@@ -180,7 +180,9 @@ class Graph:
     def _make(self, op: str, width: int, args: tuple = (), params: tuple = ()) -> Node:
         if width < 1:
             raise ValueError(f"{op}: width must be at least 1, got {width}")
-        key = (op, width, tuple(a.id for a in args), params)
+        # Nodes hash and compare by identity, and a key keeps its arguments alive, so the
+        # argument nodes themselves name them (cheaper than a tuple of their ids).
+        key = (op, width, args, params)
         node = self._table.get(key)
         if node is None:
             node = Node(op, width, args, params, next(self._serial))

@@ -1,11 +1,12 @@
 """Constant expressions of generate loops, evaluated once per set of parameter values.
 
 A wide generate array evaluates the same few index expressions (``4*j``, ``j+1``, ``s < W``)
-in every iteration, each time through the full width and signedness machinery.  An
-expression built only from literals, parameters and genvars with operators that cannot make
-an unknown value has a value fixed by the values of those names, so :func:`constant_key`
-names it by (syntax node, the Parameter each identifier denotes) and the elaborator keeps
-the first result under that key.  Evaluating it again would make exactly the same constant
+in every iteration, each time through the full width and signedness machinery, and so does
+an unrolled procedural loop (``k < D``, ``k - 1``).  An expression built only from literals,
+parameters, genvars and procedural variables holding constants, with operators that cannot
+make an unknown value, has a value fixed by what those names denote, so
+:func:`constant_key` names it by (syntax node, the Parameter or the (variable, constant)
+each identifier denotes) and the elaborator keeps the first result under that key.  Evaluating it again would make exactly the same constant
 nodes (the graph makes each node once), so remembering it changes nothing in the model.
 
 Anything else (a variable, a function or system call, a select, division or power, which
@@ -17,8 +18,9 @@ from typing import Any, Optional
 
 from pyverilog.vparser import ast as vast
 
+from ..model.node import Op
 from ._constants import parse_literal
-from ._scope import Parameter
+from ._scope import Parameter, Var
 
 _OPERATORS = (vast.Plus, vast.Minus, vast.Times, vast.And, vast.Or, vast.Xor, vast.Xnor,
               vast.Sll, vast.Srl, vast.Sla, vast.Sra,
@@ -31,9 +33,7 @@ _OPERATORS = (vast.Plus, vast.Minus, vast.Times, vast.And, vast.Or, vast.Xor, va
 
 def constant_key(expressions: Any, e: Any) -> Optional[tuple]:
     """A key fixing the value of ``e`` in ``expressions``' scope, or None when ``e`` is not
-    memoised (see the module docstring).  Only for expressions outside procedural code."""
-    if expressions.frame is not None:
-        return None      # a procedural variable may shadow a parameter's name
+    memoised (see the module docstring)."""
     shapes = expressions.design.constant_shapes
     entry = shapes.get(id(e))
     if entry is None:
@@ -43,12 +43,23 @@ def constant_key(expressions: Any, e: Any) -> Optional[tuple]:
     if names is None:
         return None
     key: list[Any] = [id(e)]
+    frame = expressions.frame
     lookup = expressions.scope.lookup
     for name in names:
-        found = lookup(name)
-        if type(found) is not Parameter or found.real is not None:
+        found = frame.lookup(name) if frame is not None else None
+        if found is None:
+            found = lookup(name)
+        if type(found) is Parameter and found.real is None:
+            key.append(found)
+        elif frame is not None and type(found) is Var and frame.owns(found):
+            # A loop counter of procedural code: its value so far, when it is a constant
+            # (reading it then has no side effect; otherwise the expression is not memoised).
+            value = frame.value_so_far(found)
+            if value is None or value.op != Op.CONST:
+                return None
+            key.append((found, value))
+        else:
             return None
-        key.append(found)
     return tuple(key)
 
 

@@ -4,9 +4,11 @@ Wide converters instantiate one small cell thousands of times with the same para
 :class:`Template` elaborates the first such instance with its inputs held at placeholder
 leaves and keeps every node it produced; each instance then gets its own port vars whose
 drivers rebuild the template's nodes with the placeholders replaced by that instance's
-inputs (``substitute``) and every free (x) value of the template replaced by a fresh one, so
-unknown values of different instances stay independent.  Only modules without clocked or
-initial blocks (at any depth) are stamped; the rest are elaborated one by one.
+inputs and every free (x) value of the template replaced by a fresh one, so unknown values of
+different instances stay independent.  The template numbers its nodes once and remembers, per
+output, the order of the rebuild, so an instance only runs the graph's builders (through its
+rewriting: an input tied to a constant folds).  Only modules without clocked or initial
+blocks (at any depth) are stamped; the rest are elaborated one by one.
 """
 from __future__ import annotations
 

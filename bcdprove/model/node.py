@@ -180,7 +180,9 @@ class Graph:
     def _make(self, op: str, width: int, args: tuple = (), params: tuple = ()) -> Node:
         if width < 1:
             raise ValueError(f"{op}: width must be at least 1, got {width}")
-        key = (op, width, tuple(a.id for a in args), params)
+        # Nodes hash and compare by identity, and a key keeps its arguments alive, so the
+        # argument nodes themselves name them (cheaper than a tuple of their ids).
+        key = (op, width, args, params)
         node = self._table.get(key)
         if node is None:
             node = Node(op, width, args, params, next(self._serial))
@@ -219,10 +221,11 @@ class Graph:
         return getattr(self, {"not": "not_", "and": "and_", "or": "or_"}.get(op, op))(*args)
 
     def _fold(self, op: str, width: int, args: tuple, params: tuple = ()) -> Node | None:
-        if all(a.op == Op.CONST for a in args):
-            value = apply_op(op, width, params, [a.value for a in args], [a.width for a in args])
-            return self.const(value, width)
-        return None
+        for a in args:               # a loop, not all(...): this runs for most nodes made
+            if a.op != Op.CONST:
+                return None
+        value = apply_op(op, width, params, [a.value for a in args], [a.width for a in args])
+        return self.const(value, width)
 
     def _binary(self, op: str, a: Node, b: Node) -> Node:
         if a.width != b.width:
@@ -350,6 +353,12 @@ class Graph:
     # structure ---------------------------------------------------------------
     def concat(self, *parts: Node) -> Node:
         """Concatenate, most significant part first."""
+        if len(parts) == 2:
+            # The common case, spared the general loops below: two parts that neither
+            # flatten nor merge (what those loops would make of them).
+            a, b = parts
+            if a.op != Op.CONCAT and b.op != Op.CONCAT and a.op != b.op:
+                return self._make(Op.CONCAT, a.width + b.width, parts)
         flat: list[Node] = []
         for p in parts:
             flat.extend(p.args if p.op == Op.CONCAT else (p,))

@@ -19,6 +19,7 @@ from pyverilog.vparser import ast as vast
 from ..errors import BcdproveError, UnsupportedConstruct
 from ..model.node import Node, Op, mask, to_signed
 from ._constants import REAL_FUNCTIONS, Literal, clog2, parse_literal, real_to_integer
+from ._constant_memo import constant_key
 from ._scope import FunctionDef, Memory, Parameter, Scope, Var
 from ._selects import Selects, indexed_select
 
@@ -218,6 +219,11 @@ class Expressions(Selects):
     # ------------------------------------------------------------------ constants
     def const_int(self, e: Any) -> int:
         """The value of a constant integer expression (signed if its type is signed)."""
+        key = constant_key(self, e)
+        if key is not None:
+            node, t = self.self_value(e, key)
+            if node.op == Op.CONST:
+                return to_signed(node.value, t.width) if t.signed else node.value
         t = self.type_of(e)
         if t.real:
             try:
@@ -289,11 +295,22 @@ class Expressions(Selects):
                          UnsupportedConstruct)
 
     # ------------------------------------------------------------------ values
-    def self_value(self, e: Any) -> tuple[Node, Type]:
+    def self_value(self, e: Any, key: Optional[tuple] = None) -> tuple[Node, Type]:
+        """``e`` at its own width and signedness; ``key`` is ``constant_key(self, e)`` when
+        the caller has it already."""
+        if key is None:
+            key = constant_key(self, e)
+        if key is not None:
+            found = self.design.constants.get(key)
+            if found is not None:
+                return found
         t = self.type_of(e)
         if t.width == 0:
             raise self.error("a zero replication is only allowed inside a concatenation", e)
-        return self.value(e, t.width, t.signed), t
+        node = self.value(e, t.width, t.signed)
+        if key is not None and node.op == Op.CONST:
+            self.design.constants[key] = (node, t)
+        return node, t
 
     def condition(self, e: Any) -> Node:
         """A 1-bit truth value: the expression is non-zero (clause 9.4)."""

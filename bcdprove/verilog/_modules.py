@@ -13,7 +13,7 @@ from typing import Any, Mapping, Optional
 from pyverilog.vparser import ast as vast
 
 from ..errors import BcdproveError, DesignError, UnsupportedConstruct
-from ..model.design import Model, Port
+from ..model.design import Model, Port, Signal
 from ..model.node import Graph, Node, Op
 from ._clocked import run_clocked, run_initial, scan_driven, sensitivity_note
 from ._constants import real_to_integer
@@ -92,8 +92,7 @@ class Elaborator(Ports, Resolver):
                                          found.signed, self.read(found), found.loc,
                                          found.msb, found.lsb))
 
-    def _signal(self, var: Var, node: Node):
-        from ..model.design import Signal
+    def _signal(self, var: Var, node: Node) -> Signal:
         return Signal(var.name, node, var.kind, var.signed, var.loc)
 
     def _overridable(self, module: vast.ModuleDef) -> list[str]:
@@ -412,12 +411,14 @@ class Elaborator(Ports, Resolver):
             run_initial(self, scope, item)
 
     def continuous(self, scope: Scope, left: Any, right: Any, node: Any, what: str,
-                   source: Optional[Any] = None) -> None:
+                   source: Optional[Any] = None, targets: Optional[list] = None) -> None:
         """Drivers for ``left = right`` (or for ``left = source()`` when given: a node
-        producer with its signedness, for instance output ports)."""
+        producer with its signedness, for instance output ports); ``targets``, when given,
+        are ``left``'s parts already found by ``lvalue_parts`` in ``scope``."""
         g = self.graph
         expressions = Expressions(self, scope)
-        targets = lvalue_parts(self, expressions, left, procedural=False)
+        if targets is None:
+            targets = lvalue_parts(self, expressions, left, procedural=False)
         width = sum(t.width for t in targets)
         memo: dict[str, Any] = {}
 

@@ -77,7 +77,7 @@ class Ports:
             self.note(f"port width mismatch: output `{var.name}` is {var.width} bits, connected "
                       f"to {width} bits (clause 12.3.9.2: extended or truncated)", inst)
         self.continuous(scope, expr, None, inst, "port connection",
-                        source=lambda: (self.read(var), var.signed))
+                        source=lambda: (self.read(var), var.signed), targets=targets)
 
     def _gate(self, scope: Scope, inst: vast.Instance) -> None:
         g = self.graph

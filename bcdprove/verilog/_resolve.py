@@ -7,6 +7,7 @@ signals on it.  :class:`ProceduralBlock` is one always block, executed once on d
 """
 from __future__ import annotations
 
+import bisect
 from typing import Any, Optional
 
 from pyverilog.vparser import ast as vast
@@ -14,6 +15,7 @@ from pyverilog.vparser import ast as vast
 from ..errors import BcdproveError, DesignError, UnsupportedConstruct
 from ..model.design import Model, Signal, SourceLocation
 from ..model.node import Graph, Node, Op, topological
+from ._constant_memo import constant_key
 from ._expressions import Expressions, Type
 from ._scope import Driver, FunctionDef, Scope, Var
 from ._statements import Frame
@@ -71,11 +73,23 @@ class Resolver:
         self._call_depth = 0
         self._call_counts: dict[str, int] = {}
         self.probes_enabled = True
+        # A location depends only on the syntax node's line; wide generate loops ask for the
+        # same few lines tens of thousands of times (every driver records where it was made).
+        self._locations: dict[Any, SourceLocation] = {}
+        # Constant expressions by _constant_memo.constant_key, and the syntax nodes' shapes.
+        self.constants: dict[tuple, tuple[Node, Type]] = {}
+        self.constant_shapes: dict[int, tuple] = {}
+        self.constant_calls: dict[tuple, tuple[Node, dict[str, int]]] = {}
+        self._keep_alive: list[Any] = []
 
     # --------------------------------------------------------------- diagnostics
     def location(self, node: Any) -> SourceLocation:
-        from .parser import location
-        return location(self.pre, node)
+        line = getattr(node, "lineno", None)
+        found = self._locations.get(line)
+        if found is None:
+            from .parser import location
+            found = self._locations[line] = location(self.pre, node)
+        return found
 
     def error(self, message: str, node: Any, kind: type = BcdproveError) -> BcdproveError:
         if node is None:
@@ -123,7 +137,10 @@ class Resolver:
     # --------------------------------------------------------------- drivers
     def add_driver(self, var: Var, lo: int, hi: int, produce: Any, node: Any, what: str) -> None:
         loc = self.location(node) if node is not None else None
-        for other in var.drivers:
+        # A wide generate array gives one net a driver per digit or bit; the index finds
+        # the overlapping ones without looking at all of them, while there are none yet.
+        crowded = var.shared is not None or bool(_overlapping(var, lo, hi))
+        for other in (var.drivers if crowded else ()):
             if other.lo <= hi and lo <= other.hi:
                 bit = max(lo, other.lo)
                 index = var.lsb + bit if var.msb >= var.lsb else var.lsb - bit
@@ -142,7 +159,13 @@ class Resolver:
                                   loc.file if loc else None, loc.line if loc else None)
         description = f"`{var.name}`" if (lo, hi) == (0, var.width - 1) else \
             f"`{var.name}[{hi}:{lo}]`"
-        var.drivers.append(Driver(lo, hi, produce, loc, what, description=description))
+        driver = Driver(lo, hi, produce, loc, what, description=description)
+        var.drivers.append(driver)
+        if var.by_low is None:
+            var.by_low = ([], [])
+        at = bisect.bisect_right(var.by_low[1], lo)
+        var.by_low[0].insert(at, driver)
+        var.by_low[1].insert(at, lo)
 
     def _driver_node(self, driver: Driver) -> Node:
         if driver.node is None:
@@ -183,8 +206,7 @@ class Resolver:
             return g.extract(var.state, hi, lo)
         pieces: list[Node] = []
         bit = hi
-        ordered = sorted((d for d in var.drivers if d.lo <= hi and lo <= d.hi),
-                         key=lambda d: -d.hi)
+        ordered = _overlapping(var, lo, hi)
         for driver in ordered:
             if driver.hi < bit:
                 pieces.append(self._undriven(var, bit, driver.hi + 1))
@@ -280,6 +302,34 @@ class Resolver:
         """Inline one call: arguments are bound as assignments to the inputs (clause 10.4)."""
         if self._call_depth >= _CALL_DEPTH_LIMIT:
             raise self.error(f"function `{function.name}` calls itself too deeply", call)
+        # A constant function called from a generate loop (`if (j < digits_for(s))`) gets
+        # the same arguments again and again.  A constant call's value depends only on its
+        # arguments, so one whose arguments are memoised constants is run once per their
+        # values; a repeat only counts the calls it would have made (they number the local
+        # names of later calls).  Only constant results are kept, and only from calls that
+        # added no note; such a call may have made free values (a local read before it is
+        # assigned), which a constant cannot contain: a repeat does not make them again.
+        key = None
+        if caller.constant and caller.frame is None:
+            keys = [constant_key(caller, argument) for argument in call.args]
+            if all(k is not None for k in keys):
+                key = (id(function), *keys)
+                found = self.constant_calls.get(key)
+                if found is not None:
+                    node, counts = found
+                    for name, more in counts.items():
+                        self._call_counts[name] = self._call_counts.get(name, 0) + more
+                    return node
+        calls, notes = dict(self._call_counts), len(self.model.notes)
+        node = self._inline_call(caller, function, call)
+        if key is not None and node.op == Op.CONST and len(self.model.notes) == notes:
+            counts = {name: made - calls.get(name, 0)
+                      for name, made in self._call_counts.items() if made != calls.get(name, 0)}
+            self.constant_calls[key] = (node, counts)
+            self._keep_alive.append(function)    # so that its id, in the key, is not reused
+        return node
+
+    def _inline_call(self, caller: Expressions, function: FunctionDef, call: Any) -> Node:
         width, signed, msb, lsb = self._function_shape(function)
         count = self._call_counts.get(function.scope.prefix + function.name, 0) + 1
         self._call_counts[function.scope.prefix + function.name] = count
@@ -361,6 +411,21 @@ class Resolver:
             else:
                 raise self.error(f"unsupported construct `{type(declared).__name__}` "
                                  f"declared inside a block", declared, UnsupportedConstruct)
+
+
+def _overlapping(var: Var, lo: int, hi: int) -> list:
+    """The drivers of ``var`` that drive a bit of ``lo..hi``, highest first, when no two of
+    its drivers overlap (``var.shared`` is None)."""
+    index = var.by_low
+    if index is None:
+        return []
+    drivers, lows = index
+    found = []
+    at = bisect.bisect_right(lows, hi) - 1       # the drivers from here down start at or below hi
+    while at >= 0 and drivers[at].hi >= lo:      # without overlaps their tops fall as well
+        found.append(drivers[at])
+        at -= 1
+    return found
 
 
 def _function_items(ast: Any) -> list:

@@ -47,6 +47,8 @@ class Var:
     node: Optional[Node] = None     # memoised full value
     direction: Optional[str] = None
     shared: Optional[Any] = None    # DesignError to raise if read outside its several blocks
+    # drivers sorted by their lowest bit, with those bits (for bisection); see Resolver
+    by_low: Optional[tuple[list, list]] = None
 
     def model_bit(self, index: int) -> int:
         """The model bit number (0 = least significant) of declared index ``index``."""

@@ -94,6 +94,11 @@ class Frame:
             return self
         return self.outer._frame_of(var)
 
+    def value_so_far(self, var: Var) -> Optional[Node]:
+        """What the body has assigned to ``var`` so far (None before its first assignment);
+        unlike :meth:`read`, records nothing."""
+        return self._frame_of(var).state.env.get(var)
+
     def read(self, var: Var, node: Any = None) -> Node:
         frame = self._frame_of(var)
         value = frame.state.env.get(var)

@@ -104,6 +104,15 @@ def stimuli(width: int, seed: int = 2026, random_count: int = 64, boundary_count
     for k in range(1, width + 1):
         low = width - k
         values.append((mask(k) << low) | (rng.getrandbits(low) if low else 0))
+    # At every stage, the prefixes just under and at its top digit's power of ten and five
+    # times it: a net that merely agrees with a sparse top-digit bit on random lanes (a
+    # gate-level netlist has many) disagrees on one of these.
+    for stage in range(1, width + 1):
+        power = 10 ** (digit_count(stage) - 1)
+        low = width - stage
+        for prefix in (power - 1, power, 5 * power - 1, 5 * power):
+            if 0 < prefix <= mask(stage):
+                values.append((prefix << low) | (rng.getrandbits(low) if low else 0))
     # Prefixes just under and over powers of ten, at random stages.
     for _ in range(boundary_count):
         stage = rng.randint(1, width)

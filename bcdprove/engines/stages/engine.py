@@ -103,6 +103,13 @@ def _unpack(graph: Graph, facts: dict[int, list], nodes: dict[int, Node], node: 
             nodes[piece.id] = piece
 
 
+def _reads_held_bits(found: list[Node], cut: Cut) -> bool:
+    """Whether cone leaves ``found`` include input bits the stage digits of ``cut`` already
+    hold (``b-1``, ``b-2`` ...: see cuts.input_bit_leaf)."""
+    return cut.digits > 0 and any(leaf.op == Op.INPUT and leaf.params[0].startswith("b-")
+                                  for leaf in found)
+
+
 def _negated(fact):
     """The fact of a bit's complement (None where it cannot be said: an input bit's)."""
     if isinstance(fact, DigitBit):
@@ -470,11 +477,9 @@ class _Run:
         and whether ``nodes`` also read input bits that the stage digits already hold."""
         cone = self.cone
         used: dict[int, set[int]] = {}            # distance back -> digit indices
-        consumed = False                          # reads an input bit already in the digits
-        for leaf in leaves(nodes):
+        found = leaves(nodes)
+        for leaf in found:
             name = leaf.params[0]
-            if name.startswith("b-"):
-                consumed = True
             if leaf.width != 4:
                 continue
             if name.startswith("d") and name[1:].isdigit():
@@ -491,7 +496,7 @@ class _Run:
             top = digit_count(stage) - 1
             if top in digits:
                 condition = cone.and_(condition, self._top_pair(stage, distance))
-        return condition, consumed and cut.digits > 0
+        return condition, _reads_held_bits(found, cut)
 
     def _top_pair(self, stage: int, distance: int) -> Node:
         """The top two digits of stage ``stage`` read as a number are at most its bound."""
@@ -536,8 +541,7 @@ class _Run:
             # short-path test on the input alone may be constant over that range.
             bad = fold_input_tests(cone, bad, self.width, cut.stage, self.problem.max_input,
                                    self.solver, timeout)
-            linked = cut.digits > 0 and any(leaf.params[0].startswith("b-")
-                                            for leaf in leaves([bad]) if leaf.op == Op.INPUT)
+            linked = _reads_held_bits(leaves([bad]), cut)
         if linked:
             return self._check_refined(bad, cut, where, timeout)
         return self.solver.check(bad, where, timeout)

@@ -228,10 +228,11 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
 
     offered: dict[tuple, Candidate] = {}     # one candidate per slice, under its outermost name
 
-    def unmatched() -> bool:
+    def unmatched() -> list[tuple[int, int, tuple]]:
+        """``(stage, digit, reference planes)`` of every digit with no candidate yet."""
         found = {(s, j) for s, j, _ in offered}
-        return any((s, j) not in found for s, digits in enumerate(reference)
-                   for j in range(len(digits)))
+        return [(s, j, key) for s, digits in enumerate(reference)
+                for j, key in enumerate(digits) if (s, j) not in found]
 
     # Outer names and digit-sized nodes first; probes from inside inner loops (many, and
     # rarely a complete stage) and complements only while some digit has no candidate.
@@ -251,15 +252,13 @@ def mine(problem, lanes_seed: int = 2026) -> Mining:
             offer(node, f"~n{node.id}", 2, complemented=True)
     synthetic: set[int] = set()
     bit_options: dict = {}
-    if unmatched():
+    missing = unmatched()
+    if missing:
         # A gate-level netlist: no word holds a digit, so assemble digits from 1-bit nets.
         bits = bit_level_nodes(cone)
         fresh = [node for node in bits if node.id not in planes]
         if fresh:
             run(Simulator(fresh), fresh)
-        found = {(s, j) for s, j, _ in offered}
-        missing = [(s, j, key) for s, digits in enumerate(reference)
-                   for j, key in enumerate(digits) if (s, j) not in found]
         for s, j, node, label in assemble(problem.model.graph, missing, bits, planes, unknown,
                                           lanes, named_bits(problem.model.signals, nesting),
                                           bit_options, lowest_input_bits(cone, problem.x),

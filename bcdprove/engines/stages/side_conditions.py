@@ -16,7 +16,7 @@ from __future__ import annotations
 
 from typing import Optional
 
-from ...model.node import Graph, Node, Op, evaluate, substitute, topological
+from ...model.node import Graph, Node, Op, evaluate, leaves, substitute, topological
 from . import obligations as outcomes
 from .cuts import input_bit_leaf
 
@@ -58,8 +58,7 @@ def fold_input_tests(cone: Graph, bad: Node, width: int, stage: int, max_input: 
     in_range = cone.ule(x, cone.const(max_input, width))
     mapping: dict[int, Node] = {}
     for test in tests:
-        leaves = [n for n in topological([test]) if n.op in Op.LEAVES and n.op != Op.CONST]
-        at_zero = evaluate([test], {leaf.id: 0 for leaf in leaves})[0]   # 0 is in the range
+        at_zero = evaluate([test], {leaf.id: 0 for leaf in leaves([test])})[0]  # 0 is in range
         value = cone.const(at_zero, 1)
         outcome = solver.check(cone.and_(in_range, cone.ne(test, value)),
                                f"input test {test!r} is {at_zero} for x <= {max_input}", timeout)
